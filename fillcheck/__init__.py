@@ -1,0 +1,16 @@
+"""fillcheck: real-gas checks of compressed-gas cylinder and pressure-vessel fills.
+
+>>> import fillcheck
+>>> f = fillcheck.fluid("CO2")
+>>> f.name, f.model
+('carbon dioxide', 'pr-peneloux')
+"""
+
+from __future__ import annotations
+
+__version__ = "0.1.0"
+
+from fillcheck.fluids.catalog import available_fluids
+from fillcheck.thermo.fluid import Fluid, State, fluid
+
+__all__ = ["Fluid", "State", "__version__", "available_fluids", "fluid"]

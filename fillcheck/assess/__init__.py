@@ -1,0 +1,22 @@
+"""Scenario in, assessment out: pure functions, nothing printed."""
+
+from __future__ import annotations
+
+from fillcheck.assess.result import Finding, ScenarioAssessment, VesselAssessment
+from fillcheck.assess.vessel import assess_vessel
+from fillcheck.scenario.resolve import Scenario
+
+
+def assess_scenario(scenario: Scenario) -> ScenarioAssessment:
+    """Assess every vessel of a validated scenario."""
+    vessels = [assess_vessel(v, scenario.reference_temperature_K) for v in scenario.vessels]
+    return ScenarioAssessment(
+        scenario.source,
+        scenario.title,
+        scenario.reference_temperature_K,
+        scenario.atmospheric_pressure_Pa,
+        vessels,
+    )
+
+
+__all__ = ["Finding", "ScenarioAssessment", "VesselAssessment", "assess_scenario", "assess_vessel"]

@@ -1,0 +1,296 @@
+"""The verdict rules: findings with a code, a severity and a message.
+
+- fail: pressure above the allowable pressure, or at the relief setting, anywhere in the storage
+  range; a filling ratio above its limit; too little vapour space.
+- review: a state outside the model's validity range; a model whose measured error is larger
+  than the margin to a limit; a gas resting on user-entered data or without measured accuracy.
+- warning: liquid in the vessel within the range; liquid-full within the range; a state close
+  to the critical point; a model substituted for the one asked for.
+- info: the charge; the margin to each limit, in pressure and in temperature.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from typing import TYPE_CHECKING
+
+import numpy as np
+
+from fillcheck import units
+from fillcheck.assess.result import Finding, VesselAssessment
+from fillcheck.scenario.resolve import T_HARD_MAX_K
+from fillcheck.thermo.vessel import VesselPath, vessel_path
+
+if TYPE_CHECKING:
+    from fillcheck.scenario.resolve import VesselInput
+
+NEAR_CRITICAL_T = 0.03
+"""|T/Tc − 1| below which a state counts as near-critical (with the density test) [-]."""
+NEAR_CRITICAL_RHO = 0.35
+"""|ρ/ρc − 1| below which a state counts as near-critical (with the temperature test) [-]."""
+
+
+def vessel_findings(
+    v: VesselInput, a: VesselAssessment, path: VesselPath, system: units.UnitSystem = "metric"
+) -> tuple[list[Finding], list[str]]:
+    """All findings of one assessed vessel and the list of limits that were checked."""
+    atm = units.STANDARD_ATMOSPHERE_Pa
+
+    def p(x: float) -> str:
+        return units.format_pressure(x, system, gauge=True, atmospheric_pressure_Pa=atm)
+
+    def t(x: float) -> str:
+        return units.format_temperature(x, system)
+
+    out: list[Finding] = []
+    checked: list[str] = []
+    lim, f = v.limits, v.fluid
+    P_top = float(path.P.max())
+    i_top = int(path.P.argmax())
+    T_range = f"{t(path.T[0])} to {t(path.T[-1])}"
+
+    # --- fail ---------------------------------------------------------------------------------
+    checked.append(f"allowable pressure {p(lim.allowable_pressure_Pa)}")
+    if P_top > lim.allowable_pressure_Pa:
+        out.append(
+            Finding(
+                "allowable-exceeded",
+                "fail",
+                f"the pressure reaches {p(P_top)} at {t(path.T[i_top])}, above the allowable "
+                f"pressure {p(lim.allowable_pressure_Pa)} (reached at {t(a.allowable_reached_at_K)})",
+            )
+        )
+    if lim.relief_set_pressure_Pa is not None:
+        checked.append(f"relief set pressure {p(lim.relief_set_pressure_Pa)}")
+        if P_top >= lim.relief_set_pressure_Pa:
+            out.append(
+                Finding(
+                    "relief-reached",
+                    "fail",
+                    f"the pressure reaches the relief set pressure {p(lim.relief_set_pressure_Pa)} "
+                    f"at {t(a.relief_reached_at_K)}: the relief device would open and vent gas",
+                )
+            )
+    if lim.max_filling_ratio_kg_m3 is not None:
+        checked.append(
+            f"maximum filling ratio {units.format_filling_ratio(lim.max_filling_ratio_kg_m3, system)}"
+        )
+        if a.density_kg_m3 > lim.max_filling_ratio_kg_m3 * (1 + 1e-12):
+            out.append(
+                Finding(
+                    "filling-ratio-exceeded",
+                    "fail",
+                    f"the filling ratio {units.format_filling_ratio(a.density_kg_m3, system)} is above "
+                    f"the limit {units.format_filling_ratio(lim.max_filling_ratio_kg_m3, system)}",
+                )
+            )
+    if lim.min_vapour_space is not None and lim.vapour_space_temperature_K is not None:
+        Tv = lim.vapour_space_temperature_K
+        checked.append(f"vapour space at least {lim.min_vapour_space:.0%} at {t(Tv)}")
+        liquid = liquid_volume_fraction(v, path.rho_mol[0], Tv)
+        if liquid > 1.0 - lim.min_vapour_space:
+            out.append(
+                Finding(
+                    "vapour-space-too-small",
+                    "fail",
+                    f"at {t(Tv)} liquid fills {liquid:.1%} of the vessel, leaving "
+                    f"{max(0.0, 1 - liquid):.1%} vapour space; at least {lim.min_vapour_space:.0%} is required",
+                )
+            )
+
+    # --- review -------------------------------------------------------------------------------
+    inside = f.validity.contains(path.T, path.P)
+    if not np.all(inside):
+        bad = path.T[~inside]
+        out.append(
+            Finding(
+                "outside-validity",
+                "review",
+                f"states from {t(bad.min())} to {t(bad.max())} lie outside the range where the "
+                f"{f.model} model's error was measured ({a.model_validity.split(' (')[0]}); "
+                "its numbers there are not vouched for",
+            )
+        )
+    if f.data.user_defined:
+        out.append(
+            Finding(
+                "user-defined-gas",
+                "review",
+                f"{f.name} is defined in the scenario by its critical constants and acentric factor; "
+                "results rest on user data and a cubic model with no measured error",
+            )
+        )
+    elif f.accuracy is None:
+        out.append(
+            Finding(
+                "accuracy-unknown",
+                "review",
+                f"the error of the {f.model} model has not been measured for {f.name} (no reference "
+                "equation to compare with); treat the numbers as estimates",
+            )
+        )
+    else:
+        err = f.accuracy.errors[f.model]
+        phase_top = str(path.phase[i_top])
+        rel = (err.saturation_pressure or 0.0) if phase_top == "two-phase" else err.pressure
+        margin = (lim.allowable_pressure_Pa - P_top) / lim.allowable_pressure_Pa
+        if phase_top == "liquid" and P_top <= lim.allowable_pressure_Pa:
+            out.append(
+                Finding(
+                    "liquid-pressure-uncertain",
+                    "review",
+                    f"the vessel is full of liquid at {t(path.T[i_top])}; the pressure of a "
+                    "liquid-full vessel is too sensitive to the model's density error to vouch for",
+                )
+            )
+        elif 0.0 <= margin < rel:
+            out.append(
+                Finding(
+                    "margin-below-model-error",
+                    "review",
+                    f"the margin to the allowable pressure ({margin:.1%}) is smaller than the "
+                    f"{f.model} model's measured pressure error for {f.name} ({rel:.1%})",
+                )
+            )
+
+    # --- warning ------------------------------------------------------------------------------
+    if a.model != (v.fluid.model) or v.model_note:
+        out.append(Finding("model-substituted", "warning", v.model_note or ""))
+    has_liquid = np.isin(path.phase, ("two-phase", "liquid"))
+    if np.any(has_liquid):
+        T_liq = path.T[has_liquid]
+        out.append(
+            Finding(
+                "liquid-present",
+                "warning",
+                f"liquid is present from {t(T_liq.min())} to {t(T_liq.max())}: the gas drawn off "
+                "changes as liquid evaporates, and a liquefied gas must be filled by weight",
+            )
+        )
+    if np.any(path.phase == "liquid"):
+        out.append(
+            Finding(
+                "liquid-full",
+                "warning",
+                f"liquid fills the whole vessel above {t(a.liquid_full_above_K)}; from there the "
+                f"pressure rises by {units.pressure_rate_per_K(a.dP_dT_at_max_Pa_K, system)} "
+                f"(at {t(path.T[-1])})",
+            )
+        )
+    Tc, _, rhoc = f.model_critical
+    near = (np.abs(path.T / Tc - 1) < NEAR_CRITICAL_T) & (
+        np.abs(path.rho_mol / rhoc - 1) < NEAR_CRITICAL_RHO
+    )
+    if np.any(near):
+        out.append(
+            Finding(
+                "near-critical",
+                "warning",
+                f"states near {t(path.T[near].min())} lie close to the critical point of {f.name} "
+                f"({t(Tc)}): pressure and phase change steeply there and every model is least sure",
+            )
+        )
+
+    # --- info ---------------------------------------------------------------------------------
+    out.append(
+        Finding(
+            "charge",
+            "info",
+            f"charge {units.format_mass(a.charged_mass_kg, system)} per vessel"
+            + (
+                f", {units.format_mass(a.charged_mass_kg * a.count, system)} for {a.count} vessels"
+                if a.count > 1
+                else ""
+            )
+            + f" ({units.format_density(a.density_kg_m3, system)}); pressure {p(a.max_state.pressure_Pa)} "
+            f"at {t(a.max_state.temperature_K)}, {p(a.min_state.pressure_Pa)} at {t(a.min_state.temperature_K)} "
+            f"(range {T_range})",
+        )
+    )
+    out.append(_margin("allowable pressure", lim.allowable_pressure_Pa, v, a, path, p, t, system))
+    if lim.relief_set_pressure_Pa is not None:
+        out.append(
+            _margin("relief set pressure", lim.relief_set_pressure_Pa, v, a, path, p, t, system)
+        )
+    if lim.max_filling_ratio_kg_m3 is not None:
+        m = lim.max_filling_ratio_kg_m3 - a.density_kg_m3
+        out.append(
+            Finding(
+                "margin-filling-ratio",
+                "info",
+                f"filling ratio {units.format_filling_ratio(a.density_kg_m3, system)} against the limit "
+                f"{units.format_filling_ratio(lim.max_filling_ratio_kg_m3, system)} "
+                f"(margin {m / lim.max_filling_ratio_kg_m3:+.1%})",
+            )
+        )
+    return out, checked
+
+
+def _margin(
+    name: str,
+    limit: float,
+    v: VesselInput,
+    a: VesselAssessment,
+    path: VesselPath,
+    p: Callable[[float], str],
+    t: Callable[[float], str],
+    system: units.UnitSystem,
+) -> Finding:
+    P_top = float(path.P.max())
+    margin = limit - P_top
+    T_reach = _temperature_reaching(v, path, limit)
+    if T_reach is None:
+        when = f"not reached up to {t(T_HARD_MAX_K)}, the upper limit of fillcheck's models"
+    elif T_reach <= path.T[-1]:
+        when = f"reached at {t(T_reach)}"
+    else:
+        when = (
+            f"would be reached at {t(T_reach)}, "
+            f"{units.format_temperature_difference(T_reach - path.T[-1], system)} above the "
+            "maximum storage temperature"
+        )
+    code = "margin-" + name.split()[0]
+    sign = "+" if margin >= 0 else "−"
+    return Finding(
+        code,
+        "info",
+        f"{name} {p(limit)}: highest pressure {p(P_top)}, margin {sign}{_span(abs(margin), system)} "
+        f"({margin / limit:+.1%}); {when}",
+    )
+
+
+def _span(dp: float, system: units.UnitSystem) -> str:
+    return f"{dp / 1e5:.1f} bar" if system == "metric" else f"{dp / 6894.757293168361:.0f} psi"
+
+
+def _temperature_reaching(v: VesselInput, path: VesselPath, limit: float) -> float | None:
+    """Temperature at which the isochore reaches ``limit``, looking past the range if needed."""
+    hit = np.flatnonzero(path.P >= limit)
+    if hit.size:
+        i = hit[0]
+        if i == 0:
+            return float(path.T[0])
+        T0, T1, P0, P1 = path.T[i - 1], path.T[i], path.P[i - 1], path.P[i]
+        return float(T0 + (limit - P0) * (T1 - T0) / (P1 - P0))
+    T = np.linspace(path.T[-1], T_HARD_MAX_K, 200)
+    ext = vessel_path(v.fluid, T, path.rho_mol[0])
+    hit = np.flatnonzero(ext.P >= limit)
+    if hit.size == 0:
+        return None
+    i = max(int(hit[0]), 1)
+    T0, T1, P0, P1 = ext.T[i - 1], ext.T[i], ext.P[i - 1], ext.P[i]
+    return float(T0 + (limit - P0) * (T1 - T0) / (P1 - P0))
+
+
+def liquid_volume_fraction(v: VesselInput, rho_mol: float, T: float) -> float:
+    """Fraction of the vessel volume taken by liquid at T [K] (1 when liquid-full) [-]."""
+    st = vessel_path(v.fluid, np.array([T]), rho_mol)
+    phase = str(st.phase[0])
+    if phase == "two-phase":
+        rl, rv = float(st.rho_liquid[0]), float(st.rho_vapor[0])
+        return (rho_mol - rv) / (rl - rv)
+    if phase == "liquid":
+        return 1.0
+    if phase == "supercritical":
+        return 1.0 if rho_mol >= v.fluid.model_critical[2] else 0.0
+    return 0.0

@@ -1,0 +1,101 @@
+"""What an assessment finds: plain data for the renderers (SI inside, no formatting)."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Literal
+
+import numpy as np
+
+Severity = Literal["fail", "review", "warning", "info"]
+Verdict = Literal["pass", "fail", "review"]
+
+
+@dataclass(frozen=True)
+class Finding:
+    """One finding: a stable code, a severity and a message for people."""
+
+    code: str
+    severity: Severity
+    message: str
+
+
+@dataclass(frozen=True)
+class EndState:
+    """The vessel at one temperature: T [K], P [Pa abs], phase, Z [-]."""
+
+    temperature_K: float
+    pressure_Pa: float
+    phase: str
+    Z: float
+
+
+@dataclass
+class VesselAssessment:
+    """Everything the report shows about one vessel."""
+
+    id: str
+    gas: str
+    model: str
+    model_name: str
+    model_references: tuple[str, ...]
+    model_validity: str
+    data_sources: dict[str, str]
+    count: int
+    water_capacity_m3: float
+    density_kg_m3: float
+    charged_mass_kg: float
+    fill_temperature_K: float | None
+    fill_pressure_Pa: float | None
+    fill_Z: float | None
+    settled_pressure_Pa: float
+    reference_temperature_K: float
+    path_T_K: np.ndarray
+    path_P_Pa: np.ndarray
+    path_phase: np.ndarray
+    max_state: EndState
+    min_state: EndState
+    dP_dT_at_max_Pa_K: float
+    liquid_forms_below_K: float | None
+    liquid_full_above_K: float | None
+    allowable_reached_at_K: float | None
+    relief_reached_at_K: float | None
+    max_safe_charge_kg: float | None
+    max_safe_fill_pressure_Pa: float | None
+    governing_limit: str | None
+    entered: dict[str, str]
+    limits_checked: list[str]
+    hazards: tuple[str, ...]
+    findings: list[Finding] = field(default_factory=list)
+    cautions: list[str] = field(default_factory=list)
+
+    @property
+    def verdict(self) -> Verdict:
+        """fail if any finding fails; review if any asks for review; pass otherwise."""
+        sev = {f.severity for f in self.findings}
+        if "fail" in sev:
+            return "fail"
+        if "review" in sev:
+            return "review"
+        return "pass"
+
+
+@dataclass
+class ScenarioAssessment:
+    """The assessment of a whole scenario."""
+
+    source: str
+    title: str | None
+    reference_temperature_K: float
+    atmospheric_pressure_Pa: float
+    vessels: list[VesselAssessment]
+
+    @property
+    def verdict(self) -> Verdict:
+        """The worst vessel verdict."""
+        verdicts = {v.verdict for v in self.vessels}
+        if "fail" in verdicts:
+            return "fail"
+        if "review" in verdicts:
+            return "review"
+        return "pass"

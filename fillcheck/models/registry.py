@@ -1,0 +1,66 @@
+"""Which models a fluid has, which one is its default, and how each is built from its data."""
+
+from __future__ import annotations
+
+from fillcheck.errors import ModelUnavailableError
+from fillcheck.fluids.accuracy import accuracy_for
+from fillcheck.fluids.catalog import FluidData
+from fillcheck.models.cubic import CUBIC_MODEL_IDS, CubicComponent, CubicModel
+
+MODEL_IDS: tuple[str, ...] = ("reference", *CUBIC_MODEL_IDS)
+"""Every model id fillcheck knows, in the words of the scenario file and the API."""
+
+_PREFERENCE = ("pr", "srk", "rk", "vdw")
+"""Order among the cubics for a gas without measured accuracy (user-defined gases, nitrogen
+trifluoride): Peng–Robinson first, the usual choice for corresponding-states estimates."""
+
+
+def available_models(data: FluidData) -> tuple[str, ...]:
+    """Model ids that can be built for this fluid, most accurate first.
+
+    For a gas with measured accuracy the order is by the largest density error over the
+    published error table's range (docs/accuracy.md); the translated Peng–Robinson model needs
+    the fitted shift, so only measured gases have it.
+    """
+    acc = accuracy_for(data.name)
+    if acc is None:
+        return _PREFERENCE
+    return tuple(sorted(acc.errors, key=lambda m: acc.errors[m].table_density))
+
+
+def default_model_id(data: FluidData) -> str:
+    """The most accurate model this fluid has."""
+    return available_models(data)[0]
+
+
+def build_model(data: FluidData, model_id: str) -> CubicModel:
+    """Build the model ``model_id`` for one fluid.
+
+    Raises
+    ------
+    ModelUnavailableError
+        For an unknown id, or an id the fluid lacks (with the ids it has).
+    """
+    have = available_models(data)
+    if model_id not in have:
+        if model_id not in MODEL_IDS:
+            why = f"unknown model '{model_id}'; known models are {', '.join(MODEL_IDS)}"
+        elif model_id == "reference":
+            why = (
+                f"no reference equation of state for {data.name} in this version of "
+                f"fillcheck; available: {', '.join(have)}"
+            )
+        else:
+            why = (
+                f"model '{model_id}' is not available for {data.name}; available: {', '.join(have)}"
+            )
+        raise ModelUnavailableError(why)
+    acc = accuracy_for(data.name)
+    shift = acc.volume_shift_m3_mol if (acc is not None and model_id == "pr-peneloux") else 0.0
+    comp = CubicComponent(
+        Tc=data.critical_temperature_K,
+        Pc=data.critical_pressure_Pa,
+        omega=data.acentric_factor,
+        shift_m3_mol=shift,
+    )
+    return CubicModel(model_id, [comp])

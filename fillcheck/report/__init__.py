@@ -1,0 +1,1 @@
+"""Renderers of a finished assessment: terminal (rich) and JSON. They compute nothing."""

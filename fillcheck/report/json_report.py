@@ -1,0 +1,72 @@
+"""The JSON result (INTERFACES.md §4): SI units, pressures absolute."""
+
+from __future__ import annotations
+
+import json
+from typing import Any
+
+from fillcheck import __version__
+from fillcheck.assess.result import EndState, ScenarioAssessment, VesselAssessment
+
+
+def _end(e: EndState) -> dict[str, Any]:
+    return {
+        "temperature_K": e.temperature_K,
+        "pressure_Pa": e.pressure_Pa,
+        "phase": e.phase,
+        "Z": e.Z,
+    }
+
+
+def vessel_dict(v: VesselAssessment) -> dict[str, Any]:
+    """One vessel as the JSON contract lays it out (plus documented extensions)."""
+    return {
+        "id": v.id,
+        "gas": v.gas,
+        "model": v.model,
+        "model_name": v.model_name,
+        "model_references": list(v.model_references),
+        "verdict": v.verdict,
+        "count": v.count,
+        "water_capacity_m3": v.water_capacity_m3,
+        "charged_mass_kg": v.charged_mass_kg,
+        "total_charged_mass_kg": v.charged_mass_kg * v.count,
+        "density_kg_m3": v.density_kg_m3,
+        "fill_temperature_K": v.fill_temperature_K,
+        "fill_pressure_Pa": v.fill_pressure_Pa,
+        "settled_pressure_Pa": v.settled_pressure_Pa,
+        "reference_temperature_K": v.reference_temperature_K,
+        "max_temperature": _end(v.max_state),
+        "min_temperature": _end(v.min_state),
+        "pressure_rise_at_max_Pa_per_K": v.dP_dT_at_max_Pa_K,
+        "liquid_forms_below_K": v.liquid_forms_below_K,
+        "liquid_full_above_K": v.liquid_full_above_K,
+        "allowable_reached_at_K": v.allowable_reached_at_K,
+        "relief_reached_at_K": v.relief_reached_at_K,
+        "max_safe_charge_kg": v.max_safe_charge_kg,
+        "max_safe_fill_pressure_Pa": v.max_safe_fill_pressure_Pa,
+        "governing_limit": v.governing_limit,
+        "limits_checked": v.limits_checked,
+        "findings": [
+            {"code": f.code, "severity": f.severity, "message": f.message} for f in v.findings
+        ],
+        "cautions": v.cautions,
+    }
+
+
+def scenario_dict(a: ScenarioAssessment) -> dict[str, Any]:
+    """The whole result."""
+    return {
+        "fillcheck_version": __version__,
+        "source": a.source,
+        "title": a.title,
+        "verdict": a.verdict,
+        "reference_temperature_K": a.reference_temperature_K,
+        "atmospheric_pressure_Pa": a.atmospheric_pressure_Pa,
+        "vessels": [vessel_dict(v) for v in a.vessels],
+    }
+
+
+def render_json(a: ScenarioAssessment) -> str:
+    """The JSON text (indented, UTF-8 characters kept)."""
+    return json.dumps(scenario_dict(a), indent=2, ensure_ascii=False)

@@ -1,0 +1,390 @@
+"""Scenario file -> validated inputs in SI, or one clear sentence saying what is wrong.
+
+Every refusal is an :class:`~fillcheck.errors.InputError` whose message names the file, the
+vessel and the field, says what is wrong and what would be right, e.g.::
+
+    bay4.toml: vessel 'AR-50-001', field 'fill.pressure': '200 bar' does not say whether it is
+    gauge or absolute; write '200 barg' (gauge) or '200 bara' (absolute)
+"""
+
+from __future__ import annotations
+
+import re
+import tomllib
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+from pydantic import ValidationError
+
+from fillcheck import units
+from fillcheck.errors import InputError
+from fillcheck.fluids.catalog import FluidData, lookup, user_fluid
+from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
+from fillcheck.thermo.fluid import Fluid
+
+T_HARD_MAX_K = 500.0
+"""Temperatures above this are refused outright: no catalog constant or correlation in
+fillcheck is meant for them (between the measured range and this, checks say "review")."""
+
+FILL_KINDS = ("pressure", "mass", "filling_ratio", "settled_pressure")
+
+
+@dataclass(frozen=True)
+class Limits:
+    """Limits in SI: pressures absolute [Pa], filling ratio [kg/m³], vapour space fraction [-]."""
+
+    allowable_pressure_Pa: float
+    relief_set_pressure_Pa: float | None = None
+    max_filling_ratio_kg_m3: float | None = None
+    min_vapour_space: float | None = None
+    vapour_space_temperature_K: float | None = None
+
+
+@dataclass(frozen=True)
+class VesselInput:
+    """One vessel of a scenario, validated, in SI."""
+
+    id: str
+    fluid: Fluid
+    model_note: str | None
+    water_capacity_m3: float
+    count: int
+    fill_kind: str
+    fill_value: float
+    fill_temperature_K: float | None
+    max_temperature_K: float
+    min_temperature_K: float | None
+    limits: Limits
+    entered: dict[str, str]
+    """The user's own text of each quantity, keyed by field path, for the report."""
+
+
+@dataclass(frozen=True)
+class Scenario:
+    """A validated scenario."""
+
+    source: str
+    title: str | None
+    reference_temperature_K: float
+    atmospheric_pressure_Pa: float
+    vessels: tuple[VesselInput, ...]
+
+
+def load_scenario(path: str | Path) -> Scenario:
+    """Read and validate a TOML scenario file."""
+    p = Path(path)
+    name = p.name
+    if not p.exists():
+        raise InputError(f"{path}: no such file; give the path of a scenario (.toml) file")
+    if p.is_dir():
+        raise InputError(f"{path}: is a folder; give the path of a scenario (.toml) file")
+    try:
+        raw = tomllib.loads(p.read_text(encoding="utf-8"))
+    except UnicodeDecodeError:
+        raise InputError(
+            f"{name}: is not a UTF-8 text file; save the scenario as UTF-8 TOML"
+        ) from None
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(
+            f"{name}: is not valid TOML ({exc}); check quotes and brackets near that line"
+        ) from None
+    return scenario_from_dict(raw, name)
+
+
+def scenario_from_dict(raw: dict[str, Any], name: str = "<scenario>") -> Scenario:
+    """Validate a scenario given as a dictionary (as parsed from TOML)."""
+    try:
+        spec = ScenarioSpec.model_validate(raw)
+    except ValidationError as exc:
+        raise InputError(_pydantic_sentence(exc, raw, name)) from None
+    where = _Where(name)
+    T_ref = where.run("reference_temperature", units.parse_temperature, spec.reference_temperature)
+    P_atm = where.run("atmospheric_pressure", units.parse_pressure, spec.atmospheric_pressure)
+    user_gases = _user_gases(spec.gas, where)
+    seen: set[str] = set()
+    vessels = []
+    for v in spec.vessel:
+        vid = str(v.id)
+        if vid in seen:
+            raise InputError(
+                f"{name}: vessel '{vid}', field 'id': the id is used twice; give "
+                "every vessel its own id"
+            )
+        seen.add(vid)
+        vessels.append(_vessel(v, where.vessel(vid), P_atm, user_gases))
+    return Scenario(name, spec.title, T_ref, P_atm, tuple(vessels))
+
+
+class _Where:
+    """Prefixes messages with file, vessel and field."""
+
+    def __init__(self, file: str, vessel: str | None = None) -> None:
+        self.file, self.vessel_id = file, vessel
+
+    def vessel(self, vid: str) -> _Where:
+        return _Where(self.file, vid)
+
+    def fail(self, field: str, what: str) -> InputError:
+        at = f"vessel '{self.vessel_id}', " if self.vessel_id is not None else ""
+        return InputError(f"{self.file}: {at}field '{field}': {what}")
+
+    def run(self, field: str, parse: Any, text: Any, *args: Any) -> float:
+        try:
+            return float(parse(text, *args))
+        except InputError as exc:
+            raise self.fail(field, str(exc)) from None
+
+
+def _user_gases(specs: list[GasSpec], where: _Where) -> dict[str, FluidData]:
+    out: dict[str, FluidData] = {}
+    for i, g in enumerate(specs):
+        f = f"gas[{i}]"
+        M = _molar_mass(g.molar_mass, where, f + ".molar_mass")
+        Tc = where.run(f + ".critical_temperature", units.parse_temperature, g.critical_temperature)
+        Pc = where.run(f + ".critical_pressure", units.parse_pressure, g.critical_pressure)
+        rhoc = (
+            where.run(f + ".critical_density", units.parse_density, g.critical_density)
+            if g.critical_density
+            else None
+        )
+        Tt = (
+            where.run(
+                f + ".triple_point_temperature", units.parse_temperature, g.triple_point_temperature
+            )
+            if g.triple_point_temperature
+            else None
+        )
+        try:
+            data = user_fluid(
+                g.name,
+                M,
+                Tc,
+                Pc,
+                float(g.acentric_factor),
+                critical_density_kg_m3=rhoc,
+                triple_point_temperature_K=Tt,
+                hazards=g.hazards,
+            )
+        except InputError as exc:
+            raise where.fail(f, str(exc)) from None
+        out[g.name.strip().casefold()] = data
+    return out
+
+
+_MOLAR_MASS_RE = re.compile(
+    r"^\s*([+-]?\d+(?:\.\d*)?(?:[eE][+-]?\d+)?)\s*(g/mol|kg/mol)\s*$", re.IGNORECASE
+)
+
+
+def _molar_mass(text: str, where: _Where, field: str) -> float:
+    m = _MOLAR_MASS_RE.match(text)
+    if not m:
+        raise where.fail(field, f"'{text}' is not a molar mass; write e.g. '44.01 g/mol'")
+    value = float(m.group(1)) * (1e-3 if m.group(2).lower() == "g/mol" else 1.0)
+    if value <= 0:
+        raise where.fail(field, f"'{text}' must be positive")
+    return value
+
+
+def _fluid_for(
+    v: VesselSpec, where: _Where, user_gases: dict[str, FluidData]
+) -> tuple[Fluid, str | None]:
+    if isinstance(v.gas, dict):
+        raise where.fail(
+            "gas",
+            "gas mixtures are not supported by this version of fillcheck; "
+            'give one gas by name, e.g. gas = "argon"',
+        )
+    key = v.gas.strip().casefold()
+    try:
+        data = user_gases[key] if key in user_gases else lookup(v.gas)
+    except InputError as exc:
+        raise where.fail("gas", str(exc) + "; or define the gas in a [[gas]] table") from None
+    note = None
+    model = v.model
+    if model == "reference":
+        fl = Fluid(data)
+        note = (
+            f"model 'reference' was asked for, but this version of fillcheck has no "
+            f"reference equation of state for {data.name}; the most accurate model it has, "
+            f"'{fl.model}', was used instead"
+        )
+        return fl, note
+    try:
+        return Fluid(data, model), note
+    except InputError as exc:
+        raise where.fail("model", str(exc)) from None
+
+
+def _vessel(
+    v: VesselSpec, where: _Where, P_atm: float, user_gases: dict[str, FluidData]
+) -> VesselInput:
+    fluid, note = _fluid_for(v, where, user_gases)
+    entered: dict[str, str] = {"water_capacity": v.water_capacity}
+    V = where.run("water_capacity", units.parse_volume, v.water_capacity)
+    if V <= 0:
+        raise where.fail("water_capacity", f"'{v.water_capacity}' must be larger than zero")
+    if v.count < 1:
+        raise where.fail("count", f"{v.count} is not a number of vessels; give 1 or more")
+    given = [k for k in FILL_KINDS if getattr(v.fill, k) is not None]
+    if len(given) != 1:
+        what = "none of" if not given else f"{' and '.join(given)}, more than one of"
+        raise where.fail(
+            "fill",
+            f"gives {what} pressure, mass, filling_ratio, settled_pressure; give exactly one",
+        )
+    kind = given[0]
+    text = getattr(v.fill, kind)
+    entered["fill." + kind] = text
+    parse = {
+        "pressure": units.parse_pressure,
+        "settled_pressure": units.parse_pressure,
+        "mass": units.parse_mass,
+        "filling_ratio": units.parse_filling_ratio,
+    }[kind]
+    args = (P_atm,) if kind.endswith("pressure") else ()
+    value = where.run("fill." + kind, parse, text, *args)
+    if value <= 0:
+        raise where.fail("fill." + kind, f"'{text}' must be larger than zero")
+    T_fill = None
+    if v.fill.temperature is not None:
+        entered["fill.temperature"] = v.fill.temperature
+        T_fill = _temperature(v.fill.temperature, "fill.temperature", where, fluid)
+    elif kind.endswith("pressure"):
+        raise where.fail(
+            "fill.temperature",
+            f"is required with fill.{kind}: the gas temperature "
+            'when the pressure is read, e.g. temperature = "15 degC"',
+        )
+    entered["storage.max_temperature"] = v.storage.max_temperature
+    T_max = _temperature(v.storage.max_temperature, "storage.max_temperature", where, fluid)
+    T_min = None
+    if v.storage.min_temperature is not None:
+        entered["storage.min_temperature"] = v.storage.min_temperature
+        T_min = _temperature(v.storage.min_temperature, "storage.min_temperature", where, fluid)
+        if T_min >= T_max:
+            raise where.fail(
+                "storage.min_temperature",
+                f"'{v.storage.min_temperature}' is not "
+                f"below the maximum '{v.storage.max_temperature}'",
+            )
+    limits = _limits(v, where, P_atm, fluid, entered)
+    return VesselInput(
+        str(v.id), fluid, note, V, v.count, kind, value, T_fill, T_max, T_min, limits, entered
+    )
+
+
+def _temperature(text: str, field: str, where: _Where, fluid: Fluid) -> float:
+    T = where.run(field, units.parse_temperature, text)
+    Tt = fluid.T_min_saturation
+    if T < Tt:
+        raise where.fail(
+            field,
+            f"'{text}' is below the triple point of {fluid.name} "
+            f"({Tt - 273.15:.1f} °C), where it is a solid; give a higher temperature",
+        )
+    if T > T_HARD_MAX_K:
+        raise where.fail(
+            field,
+            f"'{text}' is above {T_HARD_MAX_K - 273.15:.0f} °C, beyond the "
+            "range of fillcheck's models; give a storage temperature a vessel can see",
+        )
+    return T
+
+
+def _limits(
+    v: VesselSpec, where: _Where, P_atm: float, fluid: Fluid, entered: dict[str, str]
+) -> Limits:
+    lim = v.limits
+    entered["limits.allowable_pressure"] = lim.allowable_pressure
+    allow = where.run(
+        "limits.allowable_pressure", units.parse_pressure, lim.allowable_pressure, P_atm
+    )
+    relief = None
+    if lim.relief_set_pressure is not None:
+        entered["limits.relief_set_pressure"] = lim.relief_set_pressure
+        relief = where.run(
+            "limits.relief_set_pressure", units.parse_pressure, lim.relief_set_pressure, P_atm
+        )
+    fr = None
+    if lim.max_filling_ratio is not None:
+        entered["limits.max_filling_ratio"] = lim.max_filling_ratio
+        fr = where.run("limits.max_filling_ratio", units.parse_filling_ratio, lim.max_filling_ratio)
+        if fr <= 0:
+            raise where.fail(
+                "limits.max_filling_ratio", f"'{lim.max_filling_ratio}' must be larger than zero"
+            )
+    vs = vs_T = None
+    if (lim.min_vapour_space is None) != (lim.vapour_space_temperature is None):
+        raise where.fail(
+            "limits.min_vapour_space",
+            "min_vapour_space and vapour_space_temperature go together; give both or neither",
+        )
+    if lim.min_vapour_space is not None:
+        entered["limits.min_vapour_space"] = str(lim.min_vapour_space)
+        vs = where.run("limits.min_vapour_space", units.parse_fraction, lim.min_vapour_space)
+        if not 0.0 < vs < 1.0:
+            raise where.fail(
+                "limits.min_vapour_space", f"'{lim.min_vapour_space}' must lie between 0 and 100 %"
+            )
+        entered["limits.vapour_space_temperature"] = str(lim.vapour_space_temperature)
+        vs_T = _temperature(
+            str(lim.vapour_space_temperature), "limits.vapour_space_temperature", where, fluid
+        )
+    return Limits(allow, relief, fr, vs, vs_T)
+
+
+def _pydantic_sentence(exc: ValidationError, raw: dict[str, Any], file: str) -> str:
+    """The first pydantic error as one sentence naming file, vessel and field."""
+    err = exc.errors()[0]
+    loc = list(err["loc"])
+    vessel = ""
+    if len(loc) >= 2 and loc[0] == "vessel" and isinstance(loc[1], int):
+        idx = loc[1]
+        items = raw.get("vessel") or []
+        vid = items[idx].get("id") if idx < len(items) and isinstance(items[idx], dict) else None
+        vessel = f"vessel '{vid}', " if vid is not None else f"vessel number {idx + 1}, "
+        loc = loc[2:]
+    loc = [
+        p
+        for p in loc
+        if not (
+            isinstance(p, str)
+            and (
+                p.startswith("function-")
+                or p in {"str", "int", "float", "dict[str,union[float,int,str]]"}
+            )
+        )
+    ]
+    field = ".".join(str(p) for p in loc) or "(top level)"
+    kind = err["type"]
+    if kind == "missing":
+        what = "is required but missing"
+    elif kind == "extra_forbidden":
+        what = "is not a key fillcheck knows; check the spelling against the README's scenario reference"
+    elif kind in ("string_type", "float_type", "int_type", "union_tag_invalid"):
+        what = (
+            f'has {_shown(err.get("input"))}, but needs a quoted quantity with a unit, e.g. "50 L"'
+        )
+        if field.endswith(("count",)):
+            what = f"has {_shown(err.get('input'))}, but needs a whole number, e.g. 4"
+        if field.endswith(("acentric_factor",)):
+            what = f"has {_shown(err.get('input'))}, but needs a plain number, e.g. 0.152"
+    elif kind == "too_short" and field == "vessel":
+        what = "has no vessels; add at least one [[vessel]] table"
+    elif kind == "literal_error":
+        what = f"has {_shown(err.get('input'))}; {err['msg'].lower()}"
+    elif kind == "model_type" or kind == "list_type":
+        what = f"has {_shown(err.get('input'))}, but needs a table of keys"
+    else:
+        what = err["msg"]
+    return f"{file}: {vessel}field '{field}': {what}"
+
+
+def _shown(value: Any) -> str:
+    if isinstance(value, str):
+        return f"'{value}'"
+    if isinstance(value, bool):
+        return f"{str(value).lower()}"
+    return f"the bare value {value!r}" if value is not None else "no value"

@@ -1,0 +1,85 @@
+"""The scenario file as written by the user (pydantic v2): structure only, quantities as text.
+
+Quantities stay strings here; :mod:`fillcheck.scenario.resolve` turns them into SI with the one
+units module, so every unit message has the same wording wherever it comes from. Unknown keys are
+refused (a misspelt limit must never be silently ignored).
+"""
+
+from __future__ import annotations
+
+from typing import Literal
+
+from pydantic import BaseModel, ConfigDict, Field, StrictFloat, StrictInt, StrictStr
+
+Quantity = StrictStr
+"""A number with a unit, e.g. ``"200 barg"``."""
+
+
+class _Strict(BaseModel):
+    model_config = ConfigDict(extra="forbid", frozen=True)
+
+
+class FillSpec(_Strict):
+    """How the vessel is filled: exactly one of pressure, mass, filling_ratio, settled_pressure."""
+
+    pressure: Quantity | None = None
+    mass: Quantity | None = None
+    filling_ratio: Quantity | None = None
+    settled_pressure: Quantity | None = None
+    temperature: Quantity | None = None
+
+
+class StorageSpec(_Strict):
+    """The storage temperature range; the maximum is required."""
+
+    max_temperature: Quantity
+    min_temperature: Quantity | None = None
+
+
+class LimitsSpec(_Strict):
+    """Limits the fill must keep over the whole storage range."""
+
+    allowable_pressure: Quantity
+    relief_set_pressure: Quantity | None = None
+    max_filling_ratio: Quantity | None = None
+    min_vapour_space: Quantity | StrictFloat | StrictInt | None = None
+    vapour_space_temperature: Quantity | None = None
+
+
+class GasSpec(_Strict):
+    """A gas the catalog lacks, by its corresponding-states inputs (cubic models only)."""
+
+    name: StrictStr
+    molar_mass: Quantity
+    critical_temperature: Quantity
+    critical_pressure: Quantity
+    acentric_factor: StrictFloat | StrictInt
+    critical_density: Quantity | None = None
+    triple_point_temperature: Quantity | None = None
+    hazards: list[Literal["flammable", "oxidizing", "toxic", "corrosive", "asphyxiant"]] = Field(
+        default_factory=list
+    )
+
+
+class VesselSpec(_Strict):
+    """One vessel (or ``count`` identical vessels)."""
+
+    id: StrictStr | StrictInt
+    gas: StrictStr | dict[str, StrictFloat | StrictInt | StrictStr]
+    composition_basis: Literal["mole", "mass"] | None = None
+    water_capacity: Quantity
+    model: StrictStr | None = None
+    count: StrictInt = 1
+    fill: FillSpec
+    storage: StorageSpec
+    limits: LimitsSpec
+
+
+class ScenarioSpec(_Strict):
+    """A whole scenario file."""
+
+    title: StrictStr | None = None
+    reference_temperature: Quantity = "15 degC"
+    atmospheric_pressure: Quantity = "101.325 kPa absolute"
+    gas: list[GasSpec] = Field(default_factory=list)
+    vessel: list[VesselSpec] = Field(min_length=1)

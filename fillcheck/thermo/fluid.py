@@ -1,0 +1,234 @@
+"""The public face of a fluid: catalog data, one model, and states in SI mass units.
+
+>>> import fillcheck
+>>> f = fillcheck.fluid("argon", model="pr")
+>>> s = f.state(T=288.15, P=20.1e6)
+>>> s.phase
+'supercritical'
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+from fillcheck.errors import InputError, StateError
+from fillcheck.fluids.accuracy import GasAccuracy, accuracy_for
+from fillcheck.fluids.catalog import FluidData, lookup
+from fillcheck.models.base import FloatArray
+from fillcheck.models.idealgas import IdealGasMixture
+from fillcheck.models.registry import build_model, default_model_id
+from fillcheck.thermo import properties as props
+from fillcheck.thermo.density import density_TP
+from fillcheck.thermo.saturation import Saturation, saturation_T
+from fillcheck.thermo.vessel import vessel_path
+
+
+def _out(x: Any) -> Any:
+    """A 0-d array as a Python scalar, anything else unchanged."""
+    arr = np.asarray(x)
+    return arr.item() if arr.ndim == 0 else arr
+
+
+@dataclass(frozen=True)
+class CriticalPoint:
+    """A critical point: T [K], P [Pa], rho [kg/m³]."""
+
+    T: float
+    P: float
+    rho: float
+
+
+@dataclass(frozen=True)
+class Validity:
+    """Where a model's numbers are vouched for: T_min..T_max [K], P up to P_max [Pa]."""
+
+    T_min_K: float
+    T_max_K: float
+    P_max_Pa: float
+    source: str
+
+    def contains(self, T: FloatArray, P: FloatArray) -> np.ndarray:
+        """True where (T, P) lies inside the range."""
+        T, P = np.asarray(T), np.asarray(P)
+        return (T >= self.T_min_K - 1e-9) & (T <= self.T_max_K + 1e-9) & (P <= self.P_max_Pa)
+
+
+class State:
+    """A state (or an array of states) of one fluid, in SI mass units.
+
+    Attributes
+    ----------
+    T : temperature [K];  P : pressure [Pa];  rho : overall density [kg/m³]
+    Z : compressibility factor P/(ρRT) [-] (of the whole content when two-phase)
+    phase : "gas" | "liquid" | "supercritical" | "two-phase"
+    quality : vapour mass fraction when two-phase, else None [-]
+    dP_dT : pressure rise per kelvin at constant overall density [Pa/K]
+    in_range : whether the state lies inside the model's validity range
+    """
+
+    def __init__(self, fluid: Fluid, T: FloatArray, rho_mol: FloatArray) -> None:
+        path = vessel_path(fluid, T, rho_mol)
+        shape = np.broadcast(np.asarray(T), np.asarray(rho_mol)).shape
+        self._fluid = fluid
+        self._rho_mol = path.rho_mol.reshape(shape)
+        self.model = fluid.model
+        self.T = _out(path.T.reshape(shape))
+        self.P = _out(path.P.reshape(shape))
+        self.rho = _out(self._rho_mol * fluid.molar_mass)
+        R = fluid.eos.R
+        self.Z = _out(path.P.reshape(shape) / (self._rho_mol * R * path.T.reshape(shape)))
+        phase = path.phase.reshape(shape)
+        self.phase = str(phase) if phase.ndim == 0 else phase
+        q = path.quality.reshape(shape)
+        self.quality = (None if np.isnan(q) else float(q)) if q.ndim == 0 else q
+        self.dP_dT = _out(path.dP_dT.reshape(shape))
+        self.in_range = _out(fluid.validity.contains(self.T, self.P))
+
+    def _single_phase(self, what: str) -> None:
+        if np.any(np.asarray(self.phase) == "two-phase"):
+            raise StateError(f"{what} is a single-phase property; this state is two-phase")
+
+    @property
+    def ln_phi(self) -> Any:
+        """ln of the fugacity coefficient (single phase) [-]."""
+        self._single_phase("the fugacity coefficient")
+        return _out(props.ln_fugacity_coefficient(self._fluid.eos, self.T, self._rho_mol))
+
+    def caloric(self) -> dict[str, Any]:
+        """Specific u, h [J/kg], s, cv, cp [J/(kg·K)] and speed of sound w [m/s] (single phase).
+
+        Raises StateError in two phases and InputError for a fluid without an ideal-gas
+        heat-capacity correlation (user-defined gases).
+        """
+        self._single_phase("caloric properties")
+        ideal = self._fluid.ideal_gas()
+        M = self._fluid.molar_mass
+        c = props.caloric(self._fluid.eos, ideal, self.T, self._rho_mol, M)
+        return {k: _out(v if k == "w" else v / M) for k, v in c.items()}
+
+
+class Fluid:
+    """One fluid with one model (see :func:`fillcheck.fluid`)."""
+
+    def __init__(self, data: FluidData, model: str | None = None) -> None:
+        self.data = data
+        self.model = model or default_model_id(data)
+        self.eos = build_model(data, self.model)
+        self.name = data.name
+        self.cas = data.cas
+        self.formula = data.formula
+        self.molar_mass = data.molar_mass_kg_mol
+        self.critical = CriticalPoint(
+            data.critical_temperature_K, data.critical_pressure_Pa, data.critical_density_kg_m3
+        )
+        Tc, Pc, rhoc_mol = self.eos.critical_point()
+        self.model_critical = (Tc, Pc, rhoc_mol)
+        self.T_min_saturation = data.triple_point_temperature_K
+        self.accuracy: GasAccuracy | None = (
+            accuracy_for(data.name) if not data.user_defined else None
+        )
+        self.validity = self._validity()
+
+    def __repr__(self) -> str:
+        return f"<Fluid {self.name} model={self.model}>"
+
+    def _validity(self) -> Validity:
+        acc = self.accuracy
+        if acc is not None:
+            return Validity(
+                max(acc.T_min_K, self.T_min_saturation), acc.T_max_K, acc.P_max_Pa, acc.source
+            )
+        return Validity(
+            self.T_min_saturation,
+            3.0 * self.critical.T,
+            10.0 * self.critical.P,
+            "no measured error for this gas and model: results rest on corresponding states alone",
+        )
+
+    @property
+    def model_name(self) -> str:
+        """Full name of the model in use."""
+        return self.eos.info.name
+
+    @property
+    def references(self) -> tuple[str, ...]:
+        """Publications of the model in use."""
+        return self.eos.info.references
+
+    def ideal_gas(self) -> IdealGasMixture:
+        """The ideal-gas part (needs a heat-capacity correlation in the catalog)."""
+        if self.data.ideal_gas_cp is None:
+            raise InputError(f"{self.name} has no ideal-gas heat capacity in the catalog")
+        return IdealGasMixture([self.data.ideal_gas_cp], np.array([1.0]), self.eos.R)
+
+    # --- states ------------------------------------------------------------------------------
+    def state(
+        self, *, T: FloatArray, rho: FloatArray | None = None, P: FloatArray | None = None
+    ) -> State:
+        """The state at T [K] and either overall density rho [kg/m³] or pressure P [Pa]."""
+        if (rho is None) == (P is None):
+            raise InputError("give exactly one of rho (kg/m³) or P (Pa) with T")
+        T_arr = _positive(T, "T")
+        if rho is not None:
+            return State(self, T_arr, _positive(rho, "rho") / self.molar_mass)
+        return State(self, T_arr, self.density_molar(T_arr, _positive(P, "P")))
+
+    def density_molar(self, T: FloatArray, P: FloatArray) -> FloatArray:
+        """Molar density of the stable phase at T [K], P [Pa] [mol/m³]."""
+        return density_TP(self.eos, T, P)
+
+    def saturation_molar(self, T: FloatArray) -> Saturation:
+        """Saturation in molar densities at T [K] (array)."""
+        Tc, Pc, rhoc = self.model_critical
+        T = np.atleast_1d(np.asarray(T, dtype=float))
+        with np.errstate(divide="ignore"):
+            guess = np.log(Pc) + 5.373 * (1.0 + self.data.acentric_factor) * (1.0 - Tc / T)
+        return saturation_T(
+            self.eos, T, Tc=Tc, Pc=Pc, rhoc=rhoc, T_min=self.T_min_saturation, ln_P_guess=guess
+        )
+
+    def saturation(self, T: FloatArray) -> SaturationState:
+        """Saturation pressure [Pa] and saturated densities [kg/m³] at T [K] below Tc."""
+        T_arr = _positive(T, "T")
+        sat = self.saturation_molar(np.ravel(T_arr))
+        shape = np.shape(T_arr)
+        M = self.molar_mass
+        return SaturationState(
+            T=_out(sat.T.reshape(shape)),
+            P=_out(sat.P.reshape(shape)),
+            rho_liquid=_out(sat.rho_liquid.reshape(shape) * M),
+            rho_vapor=_out(sat.rho_vapor.reshape(shape) * M),
+        )
+
+
+@dataclass(frozen=True)
+class SaturationState:
+    """Saturation at T [K]: pressure P [Pa], liquid and vapour densities [kg/m³]."""
+
+    T: Any
+    P: Any
+    rho_liquid: Any
+    rho_vapor: Any
+
+
+def _positive(x: FloatArray, name: str) -> np.ndarray:
+    arr = np.asarray(x, dtype=float)
+    if not np.all(np.isfinite(arr)) or np.any(arr <= 0):
+        raise InputError(f"{name} must be a positive finite number, got {x!r}")
+    return arr
+
+
+def fluid(name: str, model: str | None = None) -> Fluid:
+    """A catalog fluid with a model: by canonical name, formula, alias or CAS, any case.
+
+    Parameters
+    ----------
+    name : str
+        e.g. ``"CO2"``, ``"R744"``, ``"124-38-9"``, ``"carbon dioxide"``.
+    model : str, optional
+        ``"pr-peneloux"``, ``"pr"``, ``"srk"``, ``"rk"``, ``"vdw"``; default: the most accurate.
+    """
+    return Fluid(lookup(name), model)
