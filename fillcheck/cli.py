@@ -22,6 +22,7 @@ app = typer.Typer(
     no_args_is_help=True,
     help="Real-gas checks of cylinder and pressure-vessel fills against their limits.",
     rich_markup_mode=None,
+    pretty_exceptions_enable=False,
 )
 
 
@@ -73,6 +74,13 @@ def check(
         _refuse(str(exc))
     except FillcheckError as exc:
         typer.echo(f"fillcheck: could not complete the check: {exc}", err=True)
+        raise typer.Exit(EXIT_FINDINGS) from None
+    except Exception as exc:  # a defect in fillcheck: never a silent pass, never a traceback
+        typer.echo(
+            f"fillcheck: internal error ({type(exc).__name__}: {exc}); no verdict was "
+            "reached. Please report this with the scenario file.",
+            err=True,
+        )
         raise typer.Exit(EXIT_FINDINGS) from None
     if json_out:
         from fillcheck.report.json_report import render_json

@@ -16,8 +16,9 @@ error and covered by the saturation-pressure error instead.
 
 Péneloux shift. A constant translation c maps every Peng–Robinson volume to v − c without
 changing pressures, so for each state the translated density is 1/(v_PR(T, P) − c). The shift
-is chosen to minimise the mean absolute relative density error over the box grid together with
-the saturated-liquid densities at the box temperatures below Tc (a golden-section search on c).
+is chosen to minimise the mean absolute relative density error over the box grid plus the mean
+absolute relative error of the saturated-liquid densities at the box temperatures below Tc (the
+two groups weighted equally; a golden-section search on c).
 """
 
 from __future__ import annotations
@@ -118,11 +119,14 @@ def errors_for(model, data, grid, sat_ref, rhoc_ref):
     rho = density_TP(model, T[keep], P[keep])
     e_rho = np.abs(rho / rho_ref[keep] - 1.0)
     gas = keep & (rho_ref < rhoc_ref)
+    dense = keep & ~gas
     e_p = np.abs(pressure(model, T[gas], rho_ref[gas]) / P[gas] - 1.0)
+    e_pd = np.abs(pressure(model, T[dense], rho_ref[dense]) / P[dense] - 1.0)
     out = {
         "density": float(e_rho.max()),
         "density_mean": float(e_rho.mean()),
         "pressure": float(e_p.max()) if e_p.size else 0.0,
+        "pressure_dense": float(e_pd.max()) if e_pd.size else 0.0,
     }
     if len(sat_ref):
         ms = model_sat(model, data, sat_ref[:, 0])
@@ -136,13 +140,15 @@ def fit_shift(data, grid, sat_ref) -> float:
     keep = same_phase_mask(pr, data, grid, sat_ref)
     v_pr = 1.0 / density_TP(pr, grid[keep, 0], grid[keep, 1])
     v_ref = 1.0 / grid[keep, 2]
+    groups = [(v_pr, v_ref)]
     if len(sat_ref):
         ms = model_sat(pr, data, sat_ref[:, 0])
-        v_pr = np.concatenate([v_pr, 1.0 / ms.rho_liquid])
-        v_ref = np.concatenate([v_ref, 1.0 / sat_ref[:, 2]])
+        groups.append((1.0 / ms.rho_liquid, 1.0 / sat_ref[:, 2]))
 
     def cost(c: float) -> float:
-        return float(np.mean(np.abs(v_ref / (v_pr - c) - 1.0)))
+        # equal weight to the single-phase grid and to the saturated liquid, so a liquefied
+        # gas's liquid density (which sets filling ratios) is not outvoted by its gas states
+        return float(sum(np.mean(np.abs(vr / (vp - c) - 1.0)) for vp, vr in groups))
 
     b = pr.b
     lo, hi = -0.5 * b, 0.5 * b

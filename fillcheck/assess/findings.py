@@ -88,15 +88,27 @@ def vessel_findings(
         Tv = lim.vapour_space_temperature_K
         checked.append(f"vapour space at least {lim.min_vapour_space:.0%} at {t(Tv)}")
         liquid = liquid_volume_fraction(v, path.rho_mol[0], Tv)
-        if liquid > 1.0 - lim.min_vapour_space:
+        allowed = 1.0 - lim.min_vapour_space
+        acc = f.accuracy
+        err = acc.errors[f.model].saturated_liquid_density if acc is not None else None
+        within = err is not None and 0.0 < liquid < 1.0 and abs(allowed / liquid - 1.0) < err
+        said = (
+            f"at {t(Tv)} liquid fills {liquid:.1%} of the vessel, leaving "
+            f"{max(0.0, 1 - liquid):.1%} vapour space; at least {lim.min_vapour_space:.0%} "
+            "is required"
+        )
+        if within:
             out.append(
                 Finding(
-                    "vapour-space-too-small",
-                    "fail",
-                    f"at {t(Tv)} liquid fills {liquid:.1%} of the vessel, leaving "
-                    f"{max(0.0, 1 - liquid):.1%} vapour space; at least {lim.min_vapour_space:.0%} is required",
+                    "vapour-space-uncertain",
+                    "review",
+                    f"{said}. The difference is within the {f.model} model's measured "
+                    f"saturated-liquid density error for {f.name} ({err:.1%}): weigh the charge "
+                    "against the code's filling ratio or use a reference equation of state",
                 )
             )
+        elif liquid > allowed:
+            out.append(Finding("vapour-space-too-small", "fail", said))
 
     # --- review -------------------------------------------------------------------------------
     inside = f.validity.contains(path.T, path.P)
@@ -132,24 +144,21 @@ def vessel_findings(
     else:
         err = f.accuracy.errors[f.model]
         phase_top = str(path.phase[i_top])
-        rel = (err.saturation_pressure or 0.0) if phase_top == "two-phase" else err.pressure
+        dense = path.rho_mol[i_top] >= f.model_critical[2]
+        if phase_top == "two-phase":
+            rel = err.saturation_pressure or 0.0
+        else:
+            rel = err.pressure_dense if dense else err.pressure
         margin = (lim.allowable_pressure_Pa - P_top) / lim.allowable_pressure_Pa
-        if phase_top == "liquid" and P_top <= lim.allowable_pressure_Pa:
-            out.append(
-                Finding(
-                    "liquid-pressure-uncertain",
-                    "review",
-                    f"the vessel is full of liquid at {t(path.T[i_top])}; the pressure of a "
-                    "liquid-full vessel is too sensitive to the model's density error to vouch for",
-                )
-            )
-        elif 0.0 <= margin < rel:
+        if 0.0 <= margin < rel:
+            state = "dense fluid" if dense and phase_top != "two-phase" else phase_top
             out.append(
                 Finding(
                     "margin-below-model-error",
                     "review",
                     f"the margin to the allowable pressure ({margin:.1%}) is smaller than the "
-                    f"{f.model} model's measured pressure error for {f.name} ({rel:.1%})",
+                    f"{f.model} model's measured pressure error for {f.name} as {state} "
+                    f"({rel:.1%}); a reference equation of state is needed to decide",
                 )
             )
 

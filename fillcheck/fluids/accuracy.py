@@ -33,6 +33,10 @@ class ModelError:
     saturation_pressure: float | None
     table_density: float
     """Largest density error over −40…65 °C, 1…300 bar (700 bar for hydrogen) [-]."""
+    pressure_dense: float
+    """Largest error of the pressure at given (T, ρ) for states denser than critical [-]."""
+    saturated_liquid_density: float
+    """Largest error of the saturated-liquid density at the box temperatures [-]."""
 
 
 @dataclass(frozen=True)
@@ -58,7 +62,12 @@ def _load() -> dict[str, GasAccuracy]:
     for name, entry in raw["gases"].items():
         errors = {
             mid: ModelError(
-                e["density"], e["pressure"], e.get("saturation_pressure"), e["table_density"]
+                density=e["density"],
+                pressure=e["pressure"],
+                saturation_pressure=e.get("saturation_pressure"),
+                table_density=e["table_density"],
+                pressure_dense=e["pressure_dense"],
+                saturated_liquid_density=e.get("saturated_liquid_density", 0.0),
             )
             for mid, e in entry["models"].items()
         }
