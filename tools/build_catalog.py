@@ -47,10 +47,11 @@ POLING_SOURCE = (
 )
 MONATOMIC_SOURCE = "monatomic ideal gas, translational degrees of freedom only (exact)"
 SHOMATE_SOURCE = (
-    "Chase (1998), NIST-JANAF Thermochemical Tables, 4th ed., J. Phys. Chem. Ref. Data "
-    "Monograph 9, as the Shomate fit given by the NIST Chemistry WebBook (SRD 69), read from "
-    "chemicals 1.5.2 (chemicals.heat_capacity.WebBook_Shomate_coefficients, lowest range); "
-    "coefficients divided by R = 8.314462618 J/(mol K)"
+    "NIST Chemistry WebBook (SRD 69) Shomate fit, which the WebBook credits to Chase (1998), "
+    "NIST-JANAF Thermochemical Tables, 4th ed., J. Phys. Chem. Ref. Data Monograph 9 (credit "
+    "from memory); read from chemicals 1.5.2 (chemicals.heat_capacity."
+    "WebBook_Shomate_coefficients, lowest range); coefficients divided by R = 8.314462618 "
+    "J/(mol K)"
 )
 
 # Air as the pseudo-pure fluid of Lemmon et al. (2000): mole fractions (from memory).
@@ -452,7 +453,7 @@ def build() -> str:
                     "normal_boiling_point", "hazards", "ideal_gas_cp"):
             out.append(f"{key} = {toml_str(src[key])}")
         if cp is None:
-            out.append(f"# no [fluid.ideal_gas_cp] table: {NO_CP[e.name]}")
+            out.append("# no [fluid.ideal_gas_cp] table: see sources.ideal_gas_cp")
         else:
             out.append("[fluid.ideal_gas_cp]")
             out.append(f"form = {toml_str(str(cp['form']))}")

@@ -1,13 +1,9 @@
 """The fluid catalog: identities, constants, hazards and ideal-gas heat capacities of the gases.
 
-The data live in ``data/catalog.toml`` (written by ``tools/build_catalog.py``), one ``[[fluid]]``
-table a gas, every figure with its published source beside it. The file is read once, on first
-use, and checked as it is read: a missing or unknown key, a ragged coefficient array, an unknown
-hazard word or two gases sharing an identifier stop the load with :class:`CatalogDataError`.
-
-A gas is found by its canonical name, formula, alias or CAS number, in any case, ignoring
-surrounding whitespace and the characters ``-``, ``_`` and space (``"R-134a"``, ``"n_butane"`` and
-``"CarbonDioxide"`` all resolve).
+The data live in ``data/catalog.toml`` (written by ``tools/build_catalog.py``), every figure with
+its published source beside it. The file is read once, on first use, and checked as it is read: a
+missing or unknown key, a ragged coefficient array, an unknown hazard word or two gases sharing an
+identifier stop the load with :class:`CatalogDataError`.
 """
 
 from __future__ import annotations
@@ -41,6 +37,7 @@ _CP_FORMS = {"poling-polynomial": 5, "shomate": 5, "monatomic": 0}
 _CP_KEYS = {"form", "a", "T_min_K", "T_max_K", "source"}
 _R = 8.314462618  # J/(mol K), exact SI value; used only for the user-gas density estimate
 _ATM = 101325.0  # Pa
+_IGNORED = str.maketrans("", "", "-_ ")  # characters lookup ignores
 
 
 class CatalogDataError(FillcheckError):
@@ -145,10 +142,7 @@ class FluidData:
 
 
 def _normalize(identifier: str) -> str:
-    text = identifier.strip().casefold()
-    for ch in "-_ ":
-        text = text.replace(ch, "")
-    return text
+    return identifier.strip().casefold().translate(_IGNORED)
 
 
 def _number(value: object, what: str) -> float:
@@ -250,9 +244,10 @@ def lookup(identifier: str) -> FluidData:
         raise UnknownFluidError(f"no gas named: the gas identifier is empty; {listing}")
     close = difflib.get_close_matches(key, list(index), n=12, cutoff=0.6)
     names = [f"'{n}'" for n in dict.fromkeys(index[k].name for k in close)][:3]
+    if not names:
+        raise UnknownFluidError(f"unknown gas '{identifier.strip()}'; {listing}")
     choice = names[0] if len(names) == 1 else f"{', '.join(names[:-1])} or {names[-1]}"
-    hint = f"did you mean {choice}?" if names else listing
-    raise UnknownFluidError(f"unknown gas '{identifier.strip()}'; {hint}")
+    raise UnknownFluidError(f"unknown gas '{identifier.strip()}'; did you mean {choice}?")
 
 
 def _checked(value: object, what: str, unit: str, problems: list[str],
@@ -314,11 +309,12 @@ def user_fluid(name: str, molar_mass_kg_mol: float, critical_temperature_K: floa
     Tc = _checked(critical_temperature_K, "critical temperature", " K", problems)
     pc = _checked(critical_pressure_Pa, "critical pressure", " Pa (1 atm)", problems, low=_ATM)
     w = _checked(acentric_factor, "acentric factor", "", problems, low=-0.5, high=1.5)
+    Tt_max = Tc if math.isfinite(Tc) else math.inf
     rho_c, Tt, Tb = (None if v is None else _checked(v, what, unit, problems, high=high)
                      for v, what, unit, high in (
                          (critical_density_kg_m3, "critical density", " kg/m3", math.inf),
                          (triple_point_temperature_K, "triple-point temperature",
-                          " K (below the critical temperature)", Tc if Tc == Tc else math.inf),
+                          " K (below the critical temperature)", Tt_max),
                          (normal_boiling_point_K, "normal boiling point", " K", math.inf)))
     hazard_set = frozenset((hazards,) if isinstance(hazards, str) else hazards)
     if hazard_set - HAZARDS:
@@ -331,20 +327,18 @@ def user_fluid(name: str, molar_mass_kg_mol: float, critical_temperature_K: floa
     sources["ideal_gas_cp"] = "none: a user-defined gas has no ideal-gas heat capacity"
     if rho_c is None:
         rho_c = pc * M / ((0.2905 - 0.085 * w) * _R * Tc)
-        sources["critical"] = ("critical temperature and pressure entered by the user; critical "
-                               "density estimated from Zc = 0.2905 - 0.085 ω (Reid, Prausnitz, "
-                               "Poling (1987), The Properties of Gases and Liquids, 4th ed.; "
-                               "from memory)")
+        sources["critical"] = ("Tc and pc entered by the user; critical density estimated from "
+                               "Zc = 0.2905 - 0.085 ω (Reid, Prausnitz, Poling (1987), The "
+                               "Properties of Gases and Liquids, 4th ed.; from memory)")
     if Tt is None:
         Tt = 0.45 * Tc
         sources["triple_point"] = ("not given by the user: 0.45 Tc is recorded as a lower "
                                    "temperature limit, not a triple point")
     if Tb is None:
         Tb = Tc / (1.0 + 3.0 * math.log10(pc / _ATM) / (7.0 * (1.0 + w)))
-        sources["normal_boiling_point"] = (
-            "not given by the user: estimated from Tc, pc and ω with Edmister's relation "
-            "log10(pc/1 atm) = (7/3)(1 + ω)(Tc/Tb - 1) (Edmister (1958), Petroleum Refiner "
-            "37(4), 173; from memory)")
+        sources["normal_boiling_point"] = ("not given by the user: estimated with Edmister's "
+                                           "relation (Edmister (1958), Petroleum Refiner 37(4), "
+                                           "173; from memory)")
     return FluidData(
         name=label, formula="", aliases=(), cas="", molar_mass_kg_mol=M,
         critical_temperature_K=Tc, critical_pressure_Pa=pc, critical_density_kg_m3=rho_c,
