@@ -33,26 +33,50 @@ def _same(factor: float, offset: float, *spellings: str) -> _Table:
 
 _PER_LITRE = {**_same(1e3, 0.0, "kg/L"), **_same(1.0, 0.0, "g/L", "kg/m3", "kg/m^3", "kg/m³")}
 _TABLES: dict[str, _Table] = {
-    "pressure": {"Pa": (1.0, 0.0), "kPa": (1e3, 0.0), "MPa": (1e6, 0.0), "bar": (1e5, 0.0),
-                 "mbar": (1e2, 0.0), "psi": (_PSI_Pa, 0.0), "atm": (STANDARD_ATMOSPHERE_Pa, 0.0)},
-    "temperature": {**_same(1.0, 0.0, "K", "kelvin"),
-                    **_same(1.0, 273.15, "degC", "°C", "deg C", "celsius"),
-                    **_same(_F_K, 459.67 * _F_K, "degF", "°F", "deg F", "fahrenheit")},
-    "volume": {**_same(1e-3, 0.0, "L", "litre", "liter"), "mL": (1e-6, 0.0),
-               **_same(1.0, 0.0, "m3", "m^3", "m³"),
-               **_same(_FT3_m3, 0.0, "ft3", "ft^3", "ft³", "cu ft"),
-               **_same(_USGAL_m3, 0.0, "gal", "USgal", "US gal")},
-    "mass": {"kg": (1.0, 0.0), "g": (1e-3, 0.0), **_same(_LB_kg, 0.0, "lb", "lbs"),
-             **_same(1e3, 0.0, "t", "tonne")},
+    "pressure": {
+        "Pa": (1.0, 0.0),
+        "kPa": (1e3, 0.0),
+        "MPa": (1e6, 0.0),
+        "bar": (1e5, 0.0),
+        "mbar": (1e2, 0.0),
+        "psi": (_PSI_Pa, 0.0),
+        "atm": (STANDARD_ATMOSPHERE_Pa, 0.0),
+    },
+    "temperature": {
+        **_same(1.0, 0.0, "K", "kelvin"),
+        **_same(1.0, 273.15, "degC", "°C", "deg C", "celsius"),
+        **_same(_F_K, 459.67 * _F_K, "degF", "°F", "deg F", "fahrenheit"),
+    },
+    "volume": {
+        **_same(1e-3, 0.0, "L", "litre", "liter"),
+        "mL": (1e-6, 0.0),
+        **_same(1.0, 0.0, "m3", "m^3", "m³"),
+        **_same(_FT3_m3, 0.0, "ft3", "ft^3", "ft³", "cu ft"),
+        **_same(_USGAL_m3, 0.0, "gal", "USgal", "US gal"),
+    },
+    "mass": {
+        "kg": (1.0, 0.0),
+        "g": (1e-3, 0.0),
+        **_same(_LB_kg, 0.0, "lb", "lbs"),
+        **_same(1e3, 0.0, "t", "tonne"),
+    },
     "density": {**_PER_LITRE, **_same(_LB_kg / _FT3_m3, 0.0, "lb/ft3", "lb/ft^3", "lb/ft³")},
     "filling ratio": _PER_LITRE,
     "fraction": {**_same(1e-2, 0.0, "%", "percent"), "ppm": (1e-6, 0.0)},
 }
 _LOOKUP = {kind: {k.casefold(): v for k, v in t.items()} for kind, t in _TABLES.items()}
 _CANONICAL_PRESSURE = {k.casefold(): k for k in _TABLES["pressure"]}
-_EXAMPLE = {"pressure": "200 barg", "pressure difference": "5 bar", "temperature": "15 °C",
-            "temperature difference": "5 K", "volume": "50 L", "mass": "10 kg",
-            "density": "100 kg/m3", "filling ratio": "0.75 kg/L", "fraction": "18 %"}
+_EXAMPLE = {
+    "pressure": "200 barg",
+    "pressure difference": "5 bar",
+    "temperature": "15 °C",
+    "temperature difference": "5 K",
+    "volume": "50 L",
+    "mass": "10 kg",
+    "density": "100 kg/m3",
+    "filling ratio": "0.75 kg/L",
+    "fraction": "18 %",
+}
 _NUMBER_RE = re.compile(r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?")
 _NONFINITE_RE = re.compile(r"[+-]?(?:nan|inf(?:inity)?)(?![a-z])", re.IGNORECASE)
 _PRESSURE_RE = re.compile(
@@ -77,12 +101,14 @@ def _split(text: object, kind: str, bare_ok: bool = False) -> tuple[float, str, 
     m = _NUMBER_RE.match(s)
     if m is None:
         raise UnitError(f"{q} does not start with a number; write e.g. '{ex}'")
-    unit = " ".join(s[m.end():].split())
+    unit = " ".join(s[m.end() :].split())
     for glyph, plain in _GLYPHS:
         unit = unit.replace(glyph, plain)
     if unit[:1] in {",", "_"} or unit[:1].isdigit():
-        raise UnitError(f"{q} has a thousands separator or a decimal comma; write plain digits "
-                        f"with '.' for decimals, e.g. '{ex}'")
+        raise UnitError(
+            f"{q} has a thousands separator or a decimal comma; write plain digits "
+            f"with '.' for decimals, e.g. '{ex}'"
+        )
     if not unit and not bare_ok:
         raise UnitError(f"{q} has no unit; write e.g. '{ex}'")
     value = float(m.group())
@@ -111,8 +137,9 @@ def _refuse(table: str, unit: str, q: str, num: str, kind: str) -> NoReturn:
     raise UnitError(f"{q} has unknown unit '{unit}'; a {kind} takes one of: {accepted}")
 
 
-def _lookup(table: str, unit: str, q: str, num: str, kind: str | None = None
-            ) -> tuple[float, float]:
+def _lookup(
+    table: str, unit: str, q: str, num: str, kind: str | None = None
+) -> tuple[float, float]:
     """Return ``(factor, offset)`` for ``unit`` in ``table`` or raise UnitError."""
     hit = _LOOKUP[table].get(unit.casefold())
     if hit is None:
@@ -150,25 +177,31 @@ def parse_pressure(text: str, atmospheric_pressure_Pa: float = STANDARD_ATMOSPHE
     """
     atm = float(atmospheric_pressure_Pa)
     if not (math.isfinite(atm) and atm > 0):
-        raise UnitError(f"'{atmospheric_pressure_Pa} Pa' is not a valid atmospheric pressure; "
-                        "it must be a positive finite number of pascals")
+        raise UnitError(
+            f"'{atmospheric_pressure_Pa} Pa' is not a valid atmospheric pressure; "
+            "it must be a positive finite number of pascals"
+        )
     value, q, num, unit = _split(text, "pressure")
     m = _PRESSURE_RE.fullmatch(unit)
     if m is None:
         _refuse("pressure", unit, q, num, "pressure")
     name = _CANONICAL_PRESSURE[m.group(1).casefold()]
     factor = _TABLES["pressure"][name][0]
-    g, a = (f"{name}g", f"{name}a") if name in {"bar", "mbar", "psi"} else (
-        f"{name}(g)", f"{name}(a)")
+    g, a = (
+        (f"{name}g", f"{name}a") if name in {"bar", "mbar", "psi"} else (f"{name}(g)", f"{name}(a)")
+    )
     if m.group(2) is None:
-        raise UnitError(f"{q} does not say whether it is gauge or absolute; "
-                        f"write '{num} {g}' (gauge) or '{num} {a}' (absolute)")
+        raise UnitError(
+            f"{q} does not say whether it is gauge or absolute; "
+            f"write '{num} {g}' (gauge) or '{num} {a}' (absolute)"
+        )
     gauge = m.group(2).strip("( )").lower().startswith("g")
     p = value * factor + (atm if gauge else 0.0)
     if not p > 0:
         limit = f" (a gauge pressure must be above '-{atm / factor:.6g} {g}')" if gauge else ""
-        raise UnitError(f"{q} is at or below vacuum; an absolute pressure must be above zero"
-                        f"{limit}")
+        raise UnitError(
+            f"{q} is at or below vacuum; an absolute pressure must be above zero{limit}"
+        )
     return p
 
 
@@ -186,8 +219,10 @@ def parse_pressure_difference(text: str) -> float:
     m = _PRESSURE_RE.fullmatch(unit)
     if m is not None and m.group(2) is not None:
         name = _CANONICAL_PRESSURE[m.group(1).casefold()]
-        raise UnitError(f"{q} is labelled gauge or absolute but a pressure difference is neither; "
-                        f"write '{num} {name}'")
+        raise UnitError(
+            f"{q} is labelled gauge or absolute but a pressure difference is neither; "
+            f"write '{num} {name}'"
+        )
     return value * _lookup("pressure", unit, q, num, "pressure difference")[0]
 
 
@@ -205,8 +240,10 @@ def parse_temperature(text: str) -> float:
     factor, offset = _lookup("temperature", unit, q, num)
     T = value * factor + offset
     if not T > 0:
-        raise UnitError(f"{q} is at or below absolute zero; a temperature must be above "
-                        "0 K (-273.15 °C, -459.67 °F)")
+        raise UnitError(
+            f"{q} is at or below absolute zero; a temperature must be above "
+            "0 K (-273.15 °C, -459.67 °F)"
+        )
     return T
 
 
@@ -301,8 +338,9 @@ def parse_fraction(text: str | float | int) -> float:
         if unit:
             value *= _lookup("fraction", unit, q, num)[0]
     if not 0.0 <= value <= 1.0:
-        raise UnitError(f"{q} is outside 0 to 1; write a fraction such as '0.18' "
-                        "or a percentage such as '18 %'")
+        raise UnitError(
+            f"{q} is outside 0 to 1; write a fraction such as '0.18' or a percentage such as '18 %'"
+        )
     return value
 
 
@@ -320,9 +358,14 @@ def _us(system: str) -> bool:
     return system == "us"
 
 
-def format_pressure(Pa_abs: float, system: UnitSystem = "metric", *, gauge: bool = True,
-                    atmospheric_pressure_Pa: float = STANDARD_ATMOSPHERE_Pa,
-                    digits: int = 1) -> str:
+def format_pressure(
+    Pa_abs: float,
+    system: UnitSystem = "metric",
+    *,
+    gauge: bool = True,
+    atmospheric_pressure_Pa: float = STANDARD_ATMOSPHERE_Pa,
+    digits: int = 1,
+) -> str:
     """Show an absolute pressure [Pa] as ``barg``/``bara`` (metric) or ``psig``/``psia`` (us).
 
     ``gauge=True`` subtracts ``atmospheric_pressure_Pa`` [Pa], e.g. ``"200.0 barg"``.
@@ -339,8 +382,7 @@ def format_temperature(K: float, system: UnitSystem = "metric", digits: int = 1)
     return f"{_num(K - 273.15, digits)} °C"
 
 
-def format_temperature_difference(K: float, system: UnitSystem = "metric",
-                                  digits: int = 1) -> str:
+def format_temperature_difference(K: float, system: UnitSystem = "metric", digits: int = 1) -> str:
     """Show a temperature difference [K] as ``K`` (metric) or ``°F`` (us), e.g. ``"9.0 °F"``."""
     return f"{_num(K / _F_K, digits)} °F" if _us(system) else f"{_num(K, digits)} K"
 
@@ -364,8 +406,9 @@ def format_density(kg_m3: float, system: UnitSystem = "metric", digits: int | No
     return f"{_num(kg_m3, 1 if digits is None else digits)} kg/m³"
 
 
-def format_filling_ratio(kg_m3: float, system: UnitSystem = "metric",
-                         digits: int | None = None) -> str:
+def format_filling_ratio(
+    kg_m3: float, system: UnitSystem = "metric", digits: int | None = None
+) -> str:
     """Show a filling ratio [kg/m³] as ``kg/L`` (metric, 3 digits) or ``lb/gal`` (us, 2 digits)."""
     if _us(system):
         return f"{_num(kg_m3 * _USGAL_m3 / _LB_kg, 2 if digits is None else digits)} lb/gal"

@@ -42,6 +42,9 @@ def vessel_findings(
     def t(x: float) -> str:
         return units.format_temperature(x, system)
 
+    def fr(x: float) -> str:
+        return units.format_filling_ratio(x, system)
+
     out: list[Finding] = []
     checked: list[str] = []
     lim, f = v.limits, v.fluid
@@ -57,7 +60,8 @@ def vessel_findings(
                 "allowable-exceeded",
                 "fail",
                 f"the pressure reaches {p(P_top)} at {t(path.T[i_top])}, above the allowable "
-                f"pressure {p(lim.allowable_pressure_Pa)} (reached at {t(a.allowable_reached_at_K)})",
+                f"pressure {p(lim.allowable_pressure_Pa)} "
+                f"(reached at {t(a.allowable_reached_at_K)})",
             )
         )
     if lim.relief_set_pressure_Pa is not None:
@@ -72,16 +76,14 @@ def vessel_findings(
                 )
             )
     if lim.max_filling_ratio_kg_m3 is not None:
-        checked.append(
-            f"maximum filling ratio {units.format_filling_ratio(lim.max_filling_ratio_kg_m3, system)}"
-        )
+        checked.append(f"maximum filling ratio {fr(lim.max_filling_ratio_kg_m3)}")
         if a.density_kg_m3 > lim.max_filling_ratio_kg_m3 * (1 + 1e-12):
             out.append(
                 Finding(
                     "filling-ratio-exceeded",
                     "fail",
-                    f"the filling ratio {units.format_filling_ratio(a.density_kg_m3, system)} is above "
-                    f"the limit {units.format_filling_ratio(lim.max_filling_ratio_kg_m3, system)}",
+                    f"the filling ratio {fr(a.density_kg_m3)} is above "
+                    f"the limit {fr(lim.max_filling_ratio_kg_m3)}",
                 )
             )
     if lim.min_vapour_space is not None and lim.vapour_space_temperature_K is not None:
@@ -128,7 +130,8 @@ def vessel_findings(
             Finding(
                 "user-defined-gas",
                 "review",
-                f"{f.name} is defined in the scenario by its critical constants and acentric factor; "
+                f"{f.name} is defined in the scenario by its critical constants and acentric "
+                "factor; "
                 "results rest on user data and a cubic model with no measured error",
             )
         )
@@ -137,7 +140,8 @@ def vessel_findings(
             Finding(
                 "accuracy-unknown",
                 "review",
-                f"the error of the {f.model} model has not been measured for {f.name} (no reference "
+                f"the error of the {f.model} model has not been measured for {f.name} "
+                "(no reference "
                 "equation to compare with); treat the numbers as estimates",
             )
         )
@@ -211,8 +215,9 @@ def vessel_findings(
                 if a.count > 1
                 else ""
             )
-            + f" ({units.format_density(a.density_kg_m3, system)}); pressure {p(a.max_state.pressure_Pa)} "
-            f"at {t(a.max_state.temperature_K)}, {p(a.min_state.pressure_Pa)} at {t(a.min_state.temperature_K)} "
+            + f" ({units.format_density(a.density_kg_m3, system)}); "
+            f"pressure {p(a.max_state.pressure_Pa)} at {t(a.max_state.temperature_K)}, "
+            f"{p(a.min_state.pressure_Pa)} at {t(a.min_state.temperature_K)} "
             f"(range {T_range})",
         )
     )
@@ -227,8 +232,8 @@ def vessel_findings(
             Finding(
                 "margin-filling-ratio",
                 "info",
-                f"filling ratio {units.format_filling_ratio(a.density_kg_m3, system)} against the limit "
-                f"{units.format_filling_ratio(lim.max_filling_ratio_kg_m3, system)} "
+                f"filling ratio {fr(a.density_kg_m3)} against the limit "
+                f"{fr(lim.max_filling_ratio_kg_m3)} "
                 f"(margin {m / lim.max_filling_ratio_kg_m3:+.1%})",
             )
         )
@@ -263,7 +268,8 @@ def _margin(
     return Finding(
         code,
         "info",
-        f"{name} {p(limit)}: highest pressure {p(P_top)}, margin {sign}{_span(abs(margin), system)} "
+        f"{name} {p(limit)}: highest pressure {p(P_top)}, "
+        f"margin {sign}{_span(abs(margin), system)} "
         f"({margin / limit:+.1%}); {when}",
     )
 

@@ -34,7 +34,8 @@ class ModelError:
     table_density: float
     """Largest density error over −40…65 °C, 1…300 bar (700 bar for hydrogen) [-]."""
     pressure_dense: float
-    """Largest error of the pressure at given (T, ρ) for states denser than critical [-]."""
+    """Largest error of the pressure at given (T, ρ) for states denser than critical, from
+    10 MPa up (where a liquid-full vessel's limits lie) [-]."""
     saturated_liquid_density: float
     """Largest error of the saturated-liquid density at the box temperatures [-]."""
 

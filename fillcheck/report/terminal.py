@@ -112,7 +112,8 @@ def _vessel_block(v: VesselAssessment, system: units.UnitSystem, atm: float) -> 
         )
         res.add_row(
             "largest safe charge",
-            f"{units.format_mass(v.max_safe_charge_kg, system)} ({v.governing_limit} governs){stop}",
+            f"{units.format_mass(v.max_safe_charge_kg, system)} "
+            f"({v.governing_limit} governs){stop}",
         )
 
     findings = Table(title="Findings", title_justify="left", show_edge=False, show_header=False)

@@ -27,6 +27,10 @@ T_HARD_MAX_K = 500.0
 """Temperatures above this are refused outright: no catalog constant or correlation in
 fillcheck is meant for them (between the measured range and this, checks say "review")."""
 
+PACKING_LIMIT = 0.98
+"""Fraction of the model's covolume limit 1/(b − c) above which a charge is refused: no liquid
+in a vessel is that dense, so such a charge is a typing error."""
+
 FILL_KINDS = ("pressure", "mass", "filling_ratio", "settled_pressure")
 
 
@@ -247,6 +251,16 @@ def _vessel(
     value = where.run("fill." + kind, parse, text, *args)
     if value <= 0:
         raise where.fail("fill." + kind, f"'{text}' must be larger than zero")
+    if kind in ("mass", "filling_ratio"):
+        rho = value / V if kind == "mass" else value
+        rho_max = PACKING_LIMIT * fluid.eos.max_density_mol() * fluid.molar_mass
+        if rho >= rho_max:
+            raise where.fail(
+                "fill." + kind,
+                f"'{text}' in '{v.water_capacity}' is {rho:.0f} kg/m³, more {fluid.name} than "
+                f"the vessel can hold even as liquid (below {rho_max:.0f} kg/m³); check the "
+                "mass and the water capacity",
+            )
     T_fill = None
     if v.fill.temperature is not None:
         entered["fill.temperature"] = v.fill.temperature
@@ -362,7 +376,10 @@ def _pydantic_sentence(exc: ValidationError, raw: dict[str, Any], file: str) -> 
     if kind == "missing":
         what = "is required but missing"
     elif kind == "extra_forbidden":
-        what = "is not a key fillcheck knows; check the spelling against the README's scenario reference"
+        what = (
+            "is not a key fillcheck knows; check the spelling against the README's "
+            "scenario reference"
+        )
     elif kind in ("string_type", "float_type", "int_type", "union_tag_invalid"):
         what = (
             f'has {_shown(err.get("input"))}, but needs a quoted quantity with a unit, e.g. "50 L"'

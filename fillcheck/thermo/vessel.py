@@ -20,7 +20,7 @@ from typing import TYPE_CHECKING, Literal
 
 import numpy as np
 
-from fillcheck.errors import ConvergenceError
+from fillcheck.errors import ConvergenceError, StateError
 from fillcheck.models.base import FloatArray
 from fillcheck.thermo.properties import (
     dP_dT_at_constant_density,
@@ -65,6 +65,12 @@ def vessel_path(fluid: Fluid, T: FloatArray, rho_mol: FloatArray) -> VesselPath:
     """
     T, rho = np.broadcast_arrays(np.asarray(T, dtype=float), np.asarray(rho_mol, dtype=float))
     T, rho = T.astype(float).ravel(), rho.astype(float).ravel()
+    if np.any(rho >= fluid.eos.max_density_mol()) or np.any(rho <= 0.0):
+        raise StateError(
+            f"{fluid.name}: a density of {rho.max() * fluid.molar_mass:.6g} kg/m³ is beyond what "
+            f"the {fluid.model} model allows "
+            f"(0 to {fluid.eos.max_density_mol() * fluid.molar_mass:.6g})"
+        )
     model = fluid.eos
     Tc, _, rhoc = fluid.model_critical
     P = np.empty_like(T)
