@@ -6,6 +6,7 @@ refused (one sentence on stderr, no traceback).
 
 from __future__ import annotations
 
+import os
 import sys
 from enum import StrEnum
 from pathlib import Path
@@ -20,7 +21,6 @@ EXIT_PASS, EXIT_FINDINGS, EXIT_REFUSED = 0, 1, 2
 app = typer.Typer(
     add_completion=False,
     no_args_is_help=True,
-    help="Real-gas checks of cylinder and pressure-vessel fills against their limits.",
     rich_markup_mode=None,
     pretty_exceptions_enable=False,
 )
@@ -33,7 +33,17 @@ class Units(StrEnum):
 
 @app.callback()
 def _root() -> None:
-    """Real-gas checks of cylinder and pressure-vessel fills against their limits."""
+    """Real-gas checks of cylinder and pressure-vessel fills against their limits.
+
+    \b
+    Examples:
+      fillcheck check scenarios/welding_supply_refill.toml
+      fillcheck check scenarios/beverage_co2_cage.toml --units us
+      fillcheck check scenarios/hydrogen_bank.toml --json > result.json
+      fillcheck gases
+
+    Exit status: 0 all vessels pass, 1 a vessel fails or needs review, 2 the input was refused.
+    """
 
 
 @app.command()
@@ -69,7 +79,7 @@ def check(
 
     try:
         scenario = load_scenario(file)
-        result = assess_scenario(scenario)
+        result = assess_scenario(scenario, units.value)
     except InputError as exc:
         _refuse(str(exc))
     except FillcheckError as exc:
@@ -91,7 +101,11 @@ def check(
 
         from fillcheck.report.terminal import render_terminal
 
-        render_terminal(result, Console(width=width, highlight=False), units.value)
+        plain = bool(os.environ.get("NO_COLOR"))
+        console = Console(
+            width=width, highlight=False, no_color=plain, color_system=None if plain else "auto"
+        )
+        render_terminal(result, console, units.value)
     raise typer.Exit(EXIT_PASS if result.verdict == "pass" else EXIT_FINDINGS)
 
 

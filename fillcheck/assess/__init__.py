@@ -5,11 +5,12 @@ from __future__ import annotations
 from fillcheck.assess.result import Finding, ScenarioAssessment, VesselAssessment
 from fillcheck.assess.vessel import assess_vessel
 from fillcheck.scenario.resolve import Scenario
+from fillcheck.units import UnitSystem
 
 
-def assess_scenario(scenario: Scenario) -> ScenarioAssessment:
-    """Assess every vessel of a validated scenario."""
-    vessels = [assess_vessel(v, scenario.reference_temperature_K) for v in scenario.vessels]
+def assess_scenario(scenario: Scenario, system: UnitSystem = "metric") -> ScenarioAssessment:
+    """Assess every vessel of a validated scenario (messages in the given unit system)."""
+    vessels = [assess_vessel(v, scenario.reference_temperature_K, system) for v in scenario.vessels]
     return ScenarioAssessment(
         scenario.source,
         scenario.title,

@@ -34,7 +34,7 @@ def vessel_findings(
     v: VesselInput, a: VesselAssessment, path: VesselPath, system: units.UnitSystem = "metric"
 ) -> tuple[list[Finding], list[str]]:
     """All findings of one assessed vessel and the list of limits that were checked."""
-    atm = units.STANDARD_ATMOSPHERE_Pa
+    atm = v.atmospheric_pressure_Pa
 
     def p(x: float) -> str:
         return units.format_pressure(x, system, gauge=True, atmospheric_pressure_Pa=atm)

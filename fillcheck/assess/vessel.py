@@ -8,11 +8,13 @@ from __future__ import annotations
 
 import numpy as np
 
+from fillcheck import units
 from fillcheck.assess.cautions import cautions_for
 from fillcheck.assess.charge import largest_safe_density
 from fillcheck.assess.findings import vessel_findings
 from fillcheck.assess.result import EndState, VesselAssessment
 from fillcheck.scenario.resolve import VesselInput
+from fillcheck.thermo.fluid import Fluid
 from fillcheck.thermo.vessel import VesselPath, saturation_crossing, vessel_path
 
 GRID_STEP_K = 0.5
@@ -60,7 +62,19 @@ def _end(path: VesselPath, i: int, R: float) -> EndState:
     return EndState(float(path.T[i]), float(path.P[i]), str(path.phase[i]), float(Z))
 
 
-def assess_vessel(v: VesselInput, T_ref: float) -> VesselAssessment:
+def _validity_text(f: Fluid, system: units.UnitSystem) -> str:
+    """The model's validity range in the report's units."""
+    val = f.validity
+    P = units.format_pressure(val.P_max_Pa, system, gauge=False, digits=0)
+    return (
+        f"{units.format_temperature(val.T_min_K, system)} to "
+        f"{units.format_temperature(val.T_max_K, system)}, up to {P} ({val.source})"
+    )
+
+
+def assess_vessel(
+    v: VesselInput, T_ref: float, system: units.UnitSystem = "metric"
+) -> VesselAssessment:
     """Assess one vessel against its limits over its storage range."""
     f = v.fluid
     R, M = f.eos.R, f.molar_mass
@@ -94,10 +108,7 @@ def assess_vessel(v: VesselInput, T_ref: float) -> VesselAssessment:
         model=f.model,
         model_name=f.model_name,
         model_references=f.references,
-        model_validity=(
-            f"{f.validity.T_min_K - 273.15:.1f} to {f.validity.T_max_K - 273.15:.1f} °C, "
-            f"up to {f.validity.P_max_Pa / 1e6:.0f} MPa ({f.validity.source})"
-        ),
+        model_validity=_validity_text(f, system),
         data_sources=dict(f.data.sources),
         count=v.count,
         water_capacity_m3=v.water_capacity_m3,
@@ -125,7 +136,7 @@ def assess_vessel(v: VesselInput, T_ref: float) -> VesselAssessment:
         limits_checked=[],
         hazards=tuple(sorted(f.data.hazards)),
     )
-    a.findings, a.limits_checked = vessel_findings(v, a, path)
+    a.findings, a.limits_checked = vessel_findings(v, a, path, system)
     liquid = bool(np.any(np.isin(path.phase, ("two-phase", "liquid"))))
     near = any(x.code == "near-critical" for x in a.findings)
     a.cautions = cautions_for(a.hazards, liquid=liquid, near_critical=near)

@@ -26,13 +26,35 @@ DATA_FILE = Path(__file__).parent / "data" / "catalog.toml"
 #: The hazard words a gas may carry.
 HAZARDS = frozenset({"flammable", "oxidizing", "toxic", "corrosive", "asphyxiant"})
 #: The keys every gas's ``sources`` table holds.
-SOURCE_KEYS = ("molar_mass", "critical", "acentric_factor", "triple_point",
-               "normal_boiling_point", "hazards", "ideal_gas_cp")
-_NUMBERS = ("molar_mass_kg_mol", "critical_temperature_K", "critical_pressure_Pa",
-            "critical_density_kg_m3", "acentric_factor", "triple_point_temperature_K",
-            "normal_boiling_point_K")
-_KEYS = {"name", "formula", "aliases", "cas", "hazards", "coolprop_name", "sources",
-         "ideal_gas_cp", *_NUMBERS}
+SOURCE_KEYS = (
+    "molar_mass",
+    "critical",
+    "acentric_factor",
+    "triple_point",
+    "normal_boiling_point",
+    "hazards",
+    "ideal_gas_cp",
+)
+_NUMBERS = (
+    "molar_mass_kg_mol",
+    "critical_temperature_K",
+    "critical_pressure_Pa",
+    "critical_density_kg_m3",
+    "acentric_factor",
+    "triple_point_temperature_K",
+    "normal_boiling_point_K",
+)
+_KEYS = {
+    "name",
+    "formula",
+    "aliases",
+    "cas",
+    "hazards",
+    "coolprop_name",
+    "sources",
+    "ideal_gas_cp",
+    *_NUMBERS,
+}
 _CP_FORMS = {"poling-polynomial": 5, "shomate": 5, "monatomic": 0}
 _CP_KEYS = {"form", "a", "T_min_K", "T_max_K", "source"}
 _R = 8.314462618  # J/(mol K), exact SI value; used only for the user-gas density estimate
@@ -70,8 +92,10 @@ class IdealGasCp:
 
     def __post_init__(self) -> None:
         if len(self.coefficients) != _CP_FORMS.get(self.form, -1):
-            raise CatalogDataError(f"ideal-gas cp form {self.form!r} with "
-                                   f"{len(self.coefficients)} coefficients is not known")
+            raise CatalogDataError(
+                f"ideal-gas cp form {self.form!r} with "
+                f"{len(self.coefficients)} coefficients is not known"
+            )
         if not 0.0 < self.T_min_K < self.T_max_K:
             raise CatalogDataError(f"ideal-gas cp range {self.T_min_K}..{self.T_max_K} K is empty")
 
@@ -101,8 +125,9 @@ class IdealGasCp:
             return out - a[4] * (1.0 / t - 1.0 / t0)
         return out + a[4] * (t**5 - t0**5) / 5.0
 
-    def integral_cp0_over_R_over_T_dT(self, T0: np.ndarray | float,
-                                      T: np.ndarray | float) -> np.ndarray:
+    def integral_cp0_over_R_over_T_dT(
+        self, T0: np.ndarray | float, T: np.ndarray | float
+    ) -> np.ndarray:
         """∫ cp0/(R T) dT from ``T0`` [K] to ``T`` [K]: the ideal-gas entropy change over R, [-]."""
         t0, t = _temperatures(T0, "lower temperature"), _temperatures(T)
         a = self.coefficients
@@ -159,33 +184,47 @@ def _parse_cp(raw: object, where: str) -> IdealGasCp | None:
     coefficients = raw.get("a", [])
     if not isinstance(coefficients, list):
         raise CatalogDataError(f"{where}: ideal_gas_cp.a must be an array")
-    return IdealGasCp(str(raw["form"]), tuple(_number(c, f"{where}: a") for c in coefficients),
-                      _number(raw.get("T_min_K"), f"{where}: T_min_K"),
-                      _number(raw.get("T_max_K"), f"{where}: T_max_K"), str(raw["source"]))
+    return IdealGasCp(
+        str(raw["form"]),
+        tuple(_number(c, f"{where}: a") for c in coefficients),
+        _number(raw.get("T_min_K"), f"{where}: T_min_K"),
+        _number(raw.get("T_max_K"), f"{where}: T_max_K"),
+        str(raw["source"]),
+    )
 
 
 def _parse_fluid(raw: dict[str, object]) -> FluidData:
     where = f"catalog entry {raw.get('name', '?')!r}"
     missing = _KEYS - {"coolprop_name", "ideal_gas_cp"} - set(raw)
     if set(raw) - _KEYS or missing:
-        raise CatalogDataError(f"{where}: unknown keys {sorted(set(raw) - _KEYS)} or missing "
-                               f"keys {sorted(missing)}")
+        raise CatalogDataError(
+            f"{where}: unknown keys {sorted(set(raw) - _KEYS)} or missing keys {sorted(missing)}"
+        )
     sources = raw["sources"]
-    if not isinstance(sources, dict) or set(sources) != set(SOURCE_KEYS) or not all(
-            isinstance(v, str) and v.strip() for v in sources.values()):
+    if (
+        not isinstance(sources, dict)
+        or set(sources) != set(SOURCE_KEYS)
+        or not all(isinstance(v, str) and v.strip() for v in sources.values())
+    ):
         raise CatalogDataError(f"{where}: sources must hold exactly {SOURCE_KEYS}, non-empty")
     hazards, aliases = raw["hazards"], raw["aliases"]
     if not isinstance(hazards, list) or set(hazards) - HAZARDS or not isinstance(aliases, list):
-        raise CatalogDataError(f"{where}: hazards must be a list of {sorted(HAZARDS)} and "
-                               "aliases a list")
+        raise CatalogDataError(
+            f"{where}: hazards must be a list of {sorted(HAZARDS)} and aliases a list"
+        )
     coolprop = raw.get("coolprop_name")
     numbers = {key: _number(raw[key], f"{where}: {key}") for key in _NUMBERS}
     return FluidData(
-        name=str(raw["name"]), formula=str(raw["formula"]), aliases=tuple(map(str, aliases)),
-        cas=str(raw["cas"]), **numbers, hazards=frozenset(hazards),
+        name=str(raw["name"]),
+        formula=str(raw["formula"]),
+        aliases=tuple(map(str, aliases)),
+        cas=str(raw["cas"]),
+        **numbers,
+        hazards=frozenset(hazards),
         sources=MappingProxyType(dict(sources)),
         ideal_gas_cp=_parse_cp(raw.get("ideal_gas_cp"), where),
-        coolprop_name=None if coolprop is None else str(coolprop))
+        coolprop_name=None if coolprop is None else str(coolprop),
+    )
 
 
 @functools.cache
@@ -199,8 +238,10 @@ def _catalog() -> tuple[tuple[FluidData, ...], Mapping[str, FluidData]]:
             key = _normalize(identifier)
             if not key or key in index:
                 other = index[key].name if key in index else "(empty)"
-                raise CatalogDataError(f"identifier {identifier!r} of {fluid.name!r} is empty or "
-                                       f"already used by {other!r}")
+                raise CatalogDataError(
+                    f"identifier {identifier!r} of {fluid.name!r} is empty or "
+                    f"already used by {other!r}"
+                )
             index[key] = fluid
     return fluids, MappingProxyType(index)
 
@@ -250,8 +291,14 @@ def lookup(identifier: str) -> FluidData:
     raise UnknownFluidError(f"unknown gas '{identifier.strip()}'; did you mean {choice}?")
 
 
-def _checked(value: object, what: str, unit: str, problems: list[str],
-             low: float = 0.0, high: float = math.inf) -> float:
+def _checked(
+    value: object,
+    what: str,
+    unit: str,
+    problems: list[str],
+    low: float = 0.0,
+    high: float = math.inf,
+) -> float:
     """``value`` as a float if it is a number in the open interval (low, high), else NaN."""
     if isinstance(value, bool) or not isinstance(value, int | float) or not low < value < high:
         span = f"above {low:g}" + ("" if high == math.inf else f" and below {high:g}")
@@ -260,12 +307,18 @@ def _checked(value: object, what: str, unit: str, problems: list[str],
     return float(value)
 
 
-def user_fluid(name: str, molar_mass_kg_mol: float, critical_temperature_K: float,
-               critical_pressure_Pa: float, acentric_factor: float, *,
-               critical_density_kg_m3: float | None = None,
-               triple_point_temperature_K: float | None = None,
-               normal_boiling_point_K: float | None = None,
-               hazards: Iterable[str] = ()) -> FluidData:
+def user_fluid(
+    name: str,
+    molar_mass_kg_mol: float,
+    critical_temperature_K: float,
+    critical_pressure_Pa: float,
+    acentric_factor: float,
+    *,
+    critical_density_kg_m3: float | None = None,
+    triple_point_temperature_K: float | None = None,
+    normal_boiling_point_K: float | None = None,
+    hazards: Iterable[str] = (),
+) -> FluidData:
     """Define a gas the catalog lacks, from its critical constants (for the cubic models).
 
     Parameters
@@ -303,23 +356,34 @@ def user_fluid(name: str, molar_mass_kg_mol: float, critical_temperature_K: floa
     if not _normalize(label):
         problems.append("The user gas needs a name that is not empty.")
     elif known is not None:
-        problems.append(f"The name '{label}' is already the catalog gas '{known.name}'; use "
-                        f"fillcheck.lookup('{known.name}') or choose another name.")
+        problems.append(
+            f"The name '{label}' is already the catalog gas '{known.name}'; use "
+            f"fillcheck.lookup('{known.name}') or choose another name."
+        )
     M = _checked(molar_mass_kg_mol, "molar mass", " kg/mol", problems, high=1.0)
     Tc = _checked(critical_temperature_K, "critical temperature", " K", problems)
     pc = _checked(critical_pressure_Pa, "critical pressure", " Pa (1 atm)", problems, low=_ATM)
     w = _checked(acentric_factor, "acentric factor", "", problems, low=-0.5, high=1.5)
     Tt_max = Tc if math.isfinite(Tc) else math.inf
-    rho_c, Tt, Tb = (None if v is None else _checked(v, what, unit, problems, high=high)
-                     for v, what, unit, high in (
-                         (critical_density_kg_m3, "critical density", " kg/m3", math.inf),
-                         (triple_point_temperature_K, "triple-point temperature",
-                          " K (below the critical temperature)", Tt_max),
-                         (normal_boiling_point_K, "normal boiling point", " K", math.inf)))
+    rho_c, Tt, Tb = (
+        None if v is None else _checked(v, what, unit, problems, high=high)
+        for v, what, unit, high in (
+            (critical_density_kg_m3, "critical density", " kg/m3", math.inf),
+            (
+                triple_point_temperature_K,
+                "triple-point temperature",
+                " K (below the critical temperature)",
+                Tt_max,
+            ),
+            (normal_boiling_point_K, "normal boiling point", " K", math.inf),
+        )
+    )
     hazard_set = frozenset((hazards,) if isinstance(hazards, str) else hazards)
     if hazard_set - HAZARDS:
-        problems.append(f"Unknown hazard {sorted(hazard_set - HAZARDS)}; use any of "
-                        f"{', '.join(sorted(HAZARDS))}.")
+        problems.append(
+            f"Unknown hazard {sorted(hazard_set - HAZARDS)}; use any of "
+            f"{', '.join(sorted(HAZARDS))}."
+        )
     if problems:
         raise InputError(" ".join(problems))
 
@@ -327,21 +391,39 @@ def user_fluid(name: str, molar_mass_kg_mol: float, critical_temperature_K: floa
     sources["ideal_gas_cp"] = "none: a user-defined gas has no ideal-gas heat capacity"
     if rho_c is None:
         rho_c = pc * M / ((0.2905 - 0.085 * w) * _R * Tc)
-        sources["critical"] = ("Tc and pc entered by the user; critical density estimated from "
-                               "Zc = 0.2905 - 0.085 ω (Reid, Prausnitz, Poling (1987), The "
-                               "Properties of Gases and Liquids, 4th ed.; from memory)")
+        sources["critical"] = (
+            "Tc and pc entered by the user; critical density estimated from "
+            "Zc = 0.2905 - 0.085 ω (Reid, Prausnitz, Poling (1987), The "
+            "Properties of Gases and Liquids, 4th ed.; from memory)"
+        )
     if Tt is None:
         Tt = 0.45 * Tc
-        sources["triple_point"] = ("not given by the user: 0.45 Tc is recorded as a lower "
-                                   "temperature limit, not a triple point")
+        sources["triple_point"] = (
+            "not given by the user: 0.45 Tc is recorded as a lower "
+            "temperature limit, not a triple point"
+        )
     if Tb is None:
         Tb = Tc / (1.0 + 3.0 * math.log10(pc / _ATM) / (7.0 * (1.0 + w)))
-        sources["normal_boiling_point"] = ("not given by the user: estimated with Edmister's "
-                                           "relation (Edmister (1958), Petroleum Refiner 37(4), "
-                                           "173; from memory)")
+        sources["normal_boiling_point"] = (
+            "not given by the user: estimated with Edmister's "
+            "relation (Edmister (1958), Petroleum Refiner 37(4), "
+            "173; from memory)"
+        )
     return FluidData(
-        name=label, formula="", aliases=(), cas="", molar_mass_kg_mol=M,
-        critical_temperature_K=Tc, critical_pressure_Pa=pc, critical_density_kg_m3=rho_c,
-        acentric_factor=w, triple_point_temperature_K=Tt, normal_boiling_point_K=Tb,
-        hazards=hazard_set, sources=MappingProxyType(sources), ideal_gas_cp=None,
-        coolprop_name=None, user_defined=True)
+        name=label,
+        formula="",
+        aliases=(),
+        cas="",
+        molar_mass_kg_mol=M,
+        critical_temperature_K=Tc,
+        critical_pressure_Pa=pc,
+        critical_density_kg_m3=rho_c,
+        acentric_factor=w,
+        triple_point_temperature_K=Tt,
+        normal_boiling_point_K=Tb,
+        hazards=hazard_set,
+        sources=MappingProxyType(sources),
+        ideal_gas_cp=None,
+        coolprop_name=None,
+        user_defined=True,
+    )

@@ -9,6 +9,7 @@ vessel and the field, says what is wrong and what would be right, e.g.::
 
 from __future__ import annotations
 
+import difflib
 import re
 import tomllib
 from dataclasses import dataclass
@@ -62,6 +63,8 @@ class VesselInput:
     limits: Limits
     entered: dict[str, str]
     """The user's own text of each quantity, keyed by field path, for the report."""
+    atmospheric_pressure_Pa: float = 101_325.0
+    """For gauge pressures on the report [Pa]."""
 
 
 @dataclass(frozen=True)
@@ -84,7 +87,7 @@ def load_scenario(path: str | Path) -> Scenario:
     if p.is_dir():
         raise InputError(f"{path}: is a folder; give the path of a scenario (.toml) file")
     try:
-        raw = tomllib.loads(p.read_text(encoding="utf-8"))
+        raw = tomllib.loads(p.read_text(encoding="utf-8-sig"))
     except UnicodeDecodeError:
         raise InputError(
             f"{name}: is not a UTF-8 text file; save the scenario as UTF-8 TOML"
@@ -159,6 +162,22 @@ def _user_gases(specs: list[GasSpec], where: _Where) -> dict[str, FluidData]:
             if g.triple_point_temperature
             else None
         )
+        if not -0.5 < float(g.acentric_factor) < 1.5:
+            raise where.fail(
+                f + ".acentric_factor",
+                f"{g.acentric_factor} is not an acentric factor; gases lie between -0.5 and 1.5 "
+                "(e.g. 0.152 for propane)",
+            )
+        try:
+            lookup(g.name)
+        except InputError:
+            pass
+        else:
+            raise where.fail(
+                f + ".name",
+                f"'{g.name}' is already in the catalog; use gas = \"{g.name}\" in the vessel "
+                "without a [[gas]] table, or give your gas another name",
+            )
         try:
             data = user_fluid(
                 g.name,
@@ -171,7 +190,8 @@ def _user_gases(specs: list[GasSpec], where: _Where) -> dict[str, FluidData]:
                 hazards=g.hazards,
             )
         except InputError as exc:
-            raise where.fail(f, str(exc)) from None
+            text = str(exc).rstrip(".")
+            raise where.fail(f, text[:1].lower() + text[1:]) from None
         out[g.name.strip().casefold()] = data
     return out
 
@@ -285,7 +305,19 @@ def _vessel(
             )
     limits = _limits(v, where, P_atm, fluid, entered)
     return VesselInput(
-        str(v.id), fluid, note, V, v.count, kind, value, T_fill, T_max, T_min, limits, entered
+        str(v.id),
+        fluid,
+        note,
+        V,
+        v.count,
+        kind,
+        value,
+        T_fill,
+        T_max,
+        T_min,
+        limits,
+        entered,
+        P_atm,
     )
 
 
@@ -351,7 +383,9 @@ def _limits(
 
 def _pydantic_sentence(exc: ValidationError, raw: dict[str, Any], file: str) -> str:
     """The first pydantic error as one sentence naming file, vessel and field."""
-    err = exc.errors()[0]
+    errors = exc.errors()
+    # an unknown key explains a "missing" one next to it (a typo), so it is reported first
+    err = next((e for e in errors if e["type"] == "extra_forbidden"), errors[0])
     loc = list(err["loc"])
     vessel = ""
     if len(loc) >= 2 and loc[0] == "vessel" and isinstance(loc[1], int):
@@ -371,15 +405,32 @@ def _pydantic_sentence(exc: ValidationError, raw: dict[str, Any], file: str) -> 
             )
         )
     ]
-    field = ".".join(str(p) for p in loc) or "(top level)"
+    field = ".".join(f"[{p}]" if isinstance(p, int) else str(p) for p in loc).replace(".[", "[")
+    field = field or "(top level)"
     kind = err["type"]
+    leaf = str(loc[-1]) if loc else ""
     if kind == "missing":
         what = "is required but missing"
     elif kind == "extra_forbidden":
-        what = (
-            "is not a key fillcheck knows; check the spelling against the README's "
-            "scenario reference"
+        close = difflib.get_close_matches(leaf, _known_keys(loc), n=1, cutoff=0.6)
+        hint = (
+            f"; did you mean '{close[0]}'?"
+            if close
+            else ("; check the spelling against the README's scenario reference")
         )
+        what = f"is not a key fillcheck knows{hint}"
+    elif leaf == "vessel" and kind in ("list_type", "model_type"):
+        what = "must be a list of tables: write [[vessel]] (double brackets) above each vessel"
+    elif leaf == "gas" and len(loc) == 1 and kind in ("string_type", "dict_type", "list_type"):
+        what = f"has {_shown(err.get('input'))}; each gas definition goes in a [[gas]] table"
+    elif leaf == "gas" and kind in ("string_type", "dict_type", "int_type", "float_type"):
+        what = f'has {_shown(err.get("input"))}, but needs a quoted gas name, e.g. gas = "argon"'
+    elif leaf == "id":
+        what = (
+            f'has {_shown(err.get("input"))}, but needs a text or number id, e.g. id = "AR-50-001"'
+        )
+    elif leaf in ("name", "title") and kind == "string_type":
+        what = f"has {_shown(err.get('input'))}, but needs quoted text"
     elif kind in ("string_type", "float_type", "int_type", "union_tag_invalid"):
         what = (
             f'has {_shown(err.get("input"))}, but needs a quoted quantity with a unit, e.g. "50 L"'
@@ -397,6 +448,26 @@ def _pydantic_sentence(exc: ValidationError, raw: dict[str, Any], file: str) -> 
     else:
         what = err["msg"]
     return f"{file}: {vessel}field '{field}': {what}"
+
+
+def _known_keys(loc: list[Any]) -> list[str]:
+    """The keys allowed where an unknown key ``loc`` was found."""
+    from fillcheck.scenario import schema
+
+    parents = [p for p in loc[:-1] if isinstance(p, str)]
+    model: Any = schema.ScenarioSpec
+    for p in parents:
+        sub = {
+            "vessel": schema.VesselSpec,
+            "gas": schema.GasSpec,
+            "fill": schema.FillSpec,
+            "storage": schema.StorageSpec,
+            "limits": schema.LimitsSpec,
+        }.get(p)
+        if sub is None:
+            return []
+        model = sub
+    return list(model.model_fields)
 
 
 def _shown(value: Any) -> str:
