@@ -91,8 +91,8 @@ def vessel_findings(
         checked.append(f"vapour space at least {lim.min_vapour_space:.0%} at {t(Tv)}")
         liquid = liquid_volume_fraction(v, path.rho_mol[0], Tv)
         allowed = 1.0 - lim.min_vapour_space
-        acc = f.accuracy
-        err = acc.errors[f.model].saturated_liquid_density if acc is not None else None
+        me = f.model_error
+        err = me.saturated_liquid_density if me is not None else None
         within = err is not None and 0.0 < liquid < 1.0 and abs(allowed / liquid - 1.0) < err
         said = (
             f"at {t(Tv)} liquid fills {liquid:.1%} of the vessel, leaving "
@@ -135,7 +135,7 @@ def vessel_findings(
                 "results rest on user data and a cubic model with no measured error",
             )
         )
-    elif f.accuracy is None:
+    elif f.model_error is None:
         out.append(
             Finding(
                 "accuracy-unknown",
@@ -146,7 +146,7 @@ def vessel_findings(
             )
         )
     else:
-        err = f.accuracy.errors[f.model]
+        err = f.model_error
         phase_top = str(path.phase[i_top])
         dense = path.rho_mol[i_top] >= f.model_critical[2]
         if phase_top == "two-phase":

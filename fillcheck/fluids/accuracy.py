@@ -53,6 +53,24 @@ class GasAccuracy:
     source: str
 
 
+REFERENCE_UNCERTAINTY = ModelError(
+    density=0.005,
+    pressure=0.005,
+    saturation_pressure=0.005,
+    table_density=0.005,
+    pressure_dense=0.03,
+    saturated_liquid_density=0.005,
+)
+"""Uncertainty fillcheck assumes for every reference equation of state [-].
+
+The publications state density uncertainties of 0.01–0.1 % for the wide-range reference
+equations (e.g. Span et al. 2000 for nitrogen, Span & Wagner 1996 for carbon dioxide) and up to
+about 0.2–0.5 % for the short industrial equations of Lemmon & Span (2006) (figures from memory).
+fillcheck takes the upper end, 0.5 %, for density, pressure at given density and saturation
+pressure; for a liquid-full vessel above 10 MPa, where the pressure moves some twenty times the
+density's relative change, 3 %."""
+
+
 @cache
 def _load() -> dict[str, GasAccuracy]:
     if not _DATA.exists():

@@ -421,3 +421,46 @@ def load_reference_equation(name: str) -> MultiparameterModel:
     if not path.exists():
         raise ReferenceDataError(f"no reference equation data for {name}")
     return MultiparameterModel(json.loads(path.read_text(encoding="utf-8")), path.name)
+
+
+class ReferenceIdealGas:
+    """The equation's own ideal-gas part in the interface of models.idealgas.IdealGasMixture.
+
+    With α⁰ = α⁰(τ) + ln δ: cp⁰/R = 1 − τ²α⁰_ττ, h⁰/(RT) = 1 + τα⁰_τ, s⁰/R = τα⁰_τ − α⁰, in the
+    publication's own reference state.
+    """
+
+    def __init__(self, model: MultiparameterModel) -> None:
+        self.model = model
+        self.T_min_K = model.validity.T_min_K
+        self.T_max_K = model.validity.T_max_K
+
+    def cp0_over_R(self, T: FloatArray) -> FloatArray:
+        return 1.0 - self.model.alpha0(T).a20
+
+    def h0_over_RT(self, T: FloatArray) -> FloatArray:
+        return 1.0 + self.model.alpha0(T).a10
+
+    def s0_over_R(self, T: FloatArray, rho_mol: FloatArray) -> FloatArray:
+        d = self.model.alpha0(T)
+        return d.a10 - d.a00 - np.log(np.asarray(rho_mol) / self.model.rho_r)
+
+
+def ancillary_value(spec: dict[str, Any], T: FloatArray) -> FloatArray:
+    """Evaluate a saturation ancillary equation at T [K].
+
+    With θ = 1 − T/T_r and S = Σ nᵢ θ^tᵢ: value = v_r (1 + S) for the non-exponential form, and
+    v_r exp(S), or v_r exp(S T_r/T) when ``using_tau_r``, for the exponential forms.
+    """
+    T = np.asarray(T, dtype=float)
+    Tr = float(spec["T_r / K"])
+    theta = np.clip(1.0 - T / Tr, 0.0, None)
+    n = np.asarray(spec["n"], dtype=float)
+    t = np.asarray(spec["t"], dtype=float)
+    S = (n * theta[..., None] ** t).sum(-1)
+    ref = float(spec["reducing_value"])
+    if spec.get("noexp", False):
+        return ref * (1.0 + S)
+    if spec.get("using_tau_r", False):
+        S = S * Tr / T
+    return ref * np.exp(S)

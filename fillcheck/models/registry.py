@@ -1,4 +1,8 @@
-"""Which models a fluid has, which one is its default, and how each is built from its data."""
+"""Which models a fluid has, which one is its default, and how each is built from its data.
+
+A fluid with a published reference equation of state has it as its default ("reference"); the
+cubics follow, ordered by their measured error.
+"""
 
 from __future__ import annotations
 
@@ -6,6 +10,11 @@ from fillcheck.errors import ModelUnavailableError
 from fillcheck.fluids.accuracy import accuracy_for
 from fillcheck.fluids.catalog import FluidData
 from fillcheck.models.cubic import CUBIC_MODEL_IDS, CubicComponent, CubicModel
+from fillcheck.models.multiparameter import (
+    MultiparameterModel,
+    available_reference_equations,
+    load_reference_equation,
+)
 
 MODEL_IDS: tuple[str, ...] = ("reference", *CUBIC_MODEL_IDS)
 """Every model id fillcheck knows, in the words of the scenario file and the API."""
@@ -15,6 +24,11 @@ _PREFERENCE = ("pr", "srk", "rk", "vdw")
 trifluoride): Peng–Robinson first, the usual choice for corresponding-states estimates."""
 
 
+def has_reference_equation(data: FluidData) -> bool:
+    """Whether a reference equation of state ships for this fluid."""
+    return not data.user_defined and data.name in available_reference_equations()
+
+
 def available_models(data: FluidData) -> tuple[str, ...]:
     """Model ids that can be built for this fluid, most accurate first.
 
@@ -22,10 +36,11 @@ def available_models(data: FluidData) -> tuple[str, ...]:
     published error table's range (docs/accuracy.md); the translated Peng–Robinson model needs
     the fitted shift, so only measured gases have it.
     """
+    ref = ("reference",) if has_reference_equation(data) else ()
     acc = accuracy_for(data.name)
     if acc is None:
-        return _PREFERENCE
-    return tuple(sorted(acc.errors, key=lambda m: acc.errors[m].table_density))
+        return ref + _PREFERENCE
+    return ref + tuple(sorted(acc.errors, key=lambda m: acc.errors[m].table_density))
 
 
 def default_model_id(data: FluidData) -> str:
@@ -33,7 +48,7 @@ def default_model_id(data: FluidData) -> str:
     return available_models(data)[0]
 
 
-def build_model(data: FluidData, model_id: str) -> CubicModel:
+def build_model(data: FluidData, model_id: str) -> CubicModel | MultiparameterModel:
     """Build the model ``model_id`` for one fluid.
 
     Raises
@@ -55,6 +70,8 @@ def build_model(data: FluidData, model_id: str) -> CubicModel:
                 f"model '{model_id}' is not available for {data.name}; available: {', '.join(have)}"
             )
         raise ModelUnavailableError(why)
+    if model_id == "reference":
+        return load_reference_equation(data.name)
     acc = accuracy_for(data.name)
     shift = acc.volume_shift_m3_mol if (acc is not None and model_id == "pr-peneloux") else 0.0
     comp = CubicComponent(

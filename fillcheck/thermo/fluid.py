@@ -15,13 +15,19 @@ from typing import Any
 import numpy as np
 
 from fillcheck.errors import InputError, StateError
-from fillcheck.fluids.accuracy import GasAccuracy, accuracy_for
+from fillcheck.fluids.accuracy import REFERENCE_UNCERTAINTY, GasAccuracy, ModelError, accuracy_for
 from fillcheck.fluids.catalog import FluidData, lookup
 from fillcheck.models.base import FloatArray
 from fillcheck.models.idealgas import IdealGasMixture
+from fillcheck.models.multiparameter import (
+    MultiparameterModel,
+    ReferenceIdealGas,
+    ancillary_value,
+)
 from fillcheck.models.registry import build_model, default_model_id
 from fillcheck.thermo import properties as props
 from fillcheck.thermo.density import density_TP
+from fillcheck.thermo.helmholtz_solvers import density_bracketed, saturation_newton
 from fillcheck.thermo.saturation import Saturation, saturation_T
 from fillcheck.thermo.vessel import vessel_path
 
@@ -126,7 +132,12 @@ class Fluid:
         )
         Tc, Pc, rhoc_mol = self.eos.critical_point()
         self.model_critical = (Tc, Pc, rhoc_mol)
-        self.T_min_saturation = data.triple_point_temperature_K
+        self.is_reference = isinstance(self.eos, MultiparameterModel)
+        self.T_min_saturation = (
+            max(self.eos.T_triple, data.triple_point_temperature_K)
+            if self.is_reference
+            else data.triple_point_temperature_K
+        )
         self.accuracy: GasAccuracy | None = (
             accuracy_for(data.name) if not data.user_defined else None
         )
@@ -135,7 +146,19 @@ class Fluid:
     def __repr__(self) -> str:
         return f"<Fluid {self.name} model={self.model}>"
 
+    @property
+    def model_error(self) -> ModelError | None:
+        """The error the model in use is known to have for this gas, or None if unknown."""
+        if self.is_reference:
+            return REFERENCE_UNCERTAINTY
+        if self.accuracy is None:
+            return None
+        return self.accuracy.errors.get(self.model)
+
     def _validity(self) -> Validity:
+        if self.is_reference:
+            v = self.eos.validity
+            return Validity(v.T_min_K, v.T_max_K, v.P_max_Pa, f"published range of {self.eos.publication}")
         acc = self.accuracy
         if acc is not None:
             return Validity(
@@ -158,8 +181,10 @@ class Fluid:
         """Publications of the model in use."""
         return self.eos.info.references
 
-    def ideal_gas(self) -> IdealGasMixture:
-        """The ideal-gas part (needs a heat-capacity correlation in the catalog)."""
+    def ideal_gas(self) -> IdealGasMixture | ReferenceIdealGas:
+        """The ideal-gas part: the reference equation's own, else the catalog correlation."""
+        if self.is_reference:
+            return ReferenceIdealGas(self.eos)
         if self.data.ideal_gas_cp is None:
             raise InputError(f"{self.name} has no ideal-gas heat capacity in the catalog")
         return IdealGasMixture([self.data.ideal_gas_cp], np.array([1.0]), self.eos.R)
@@ -178,17 +203,38 @@ class Fluid:
 
     def density_molar(self, T: FloatArray, P: FloatArray) -> FloatArray:
         """Molar density of the stable phase at T [K], P [Pa] [mol/m³]."""
+        if self.is_reference:
+            Tc, _, rhoc = self.model_critical
+            return density_bracketed(
+                self.eos, T, P, Tc=Tc, rhoc=rhoc, saturation=self.saturation_molar
+            ).reshape(np.broadcast(np.asarray(T), np.asarray(P)).shape)
         return density_TP(self.eos, T, P)
 
     def saturation_molar(self, T: FloatArray) -> Saturation:
         """Saturation in molar densities at T [K] (array)."""
         Tc, Pc, rhoc = self.model_critical
         T = np.atleast_1d(np.asarray(T, dtype=float))
+        if self.is_reference:
+            return self._reference_saturation(T)
         with np.errstate(divide="ignore"):
             guess = np.log(Pc) + 5.373 * (1.0 + self.data.acentric_factor) * (1.0 - Tc / T)
         return saturation_T(
             self.eos, T, Tc=Tc, Pc=Pc, rhoc=rhoc, T_min=self.T_min_saturation, ln_P_guess=guess
         )
+
+    def _reference_saturation(self, T: np.ndarray) -> Saturation:
+        Tc = self.model_critical[0]
+        T_min = self.T_min_saturation
+        bad = (T >= Tc) | (T < T_min * (1 - 1e-12)) | ~np.isfinite(T)
+        if np.any(bad):
+            raise StateError(
+                f"no saturation state at {T[bad][0]:.6g} K: saturation exists from the triple "
+                f"point {T_min:.6g} K up to the critical temperature {Tc:.6g} K"
+            )
+        anc = self.eos.ancillaries
+        rl = ancillary_value(anc["saturated_liquid_density"], T)
+        rv = ancillary_value(anc["saturated_vapour_density"], T)
+        return saturation_newton(self.eos, T, rl, rv, self.eos.rho_r)
 
     def saturation(self, T: FloatArray) -> SaturationState:
         """Saturation pressure [Pa] and saturated densities [kg/m³] at T [K] below Tc."""

@@ -1,0 +1,144 @@
+"""Density and saturation solvers for any Helmholtz model, using only αʳ and its derivatives.
+
+The cubic models have their own fast paths (closed-form volume roots); a multiparameter
+reference equation has none, so these solvers work from the model contract alone.
+
+Saturation: Newton's method on the two saturated densities with equal pressure and equal Gibbs
+energy, in the reduced form of Akasaka (2008), J. Thermal Sci. Tech. 3, 442: with
+J(δ) = δ(1 + δαʳ_δ) and K(δ) = δαʳ_δ + αʳ + ln δ, solve J(δ'') = J(δ') and K(δ'') = K(δ'), whose
+Jacobian needs only J' = 1 + 2δαʳ_δ + δ²αʳ_δδ and K' = J'/δ. Starting values come from the
+ancillary equations of the fluid's data file.
+
+Density from (T, P): below the critical temperature the saturation pressure decides the stable
+phase, and the root is bracketed by the saturated density and a density where the pressure is
+known to be higher (vapour: (0, ρ''], liquid: [ρ', ρ_hi)); above it the isotherm rises
+monotonically. In the bracket, Newton steps that leave it are replaced by bisection.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+
+import numpy as np
+
+from fillcheck.errors import ConvergenceError
+from fillcheck.models.base import FloatArray, HelmholtzModel
+from fillcheck.thermo.saturation import Saturation
+
+_MAX_ITER = 200
+
+
+def saturation_newton(
+    model: HelmholtzModel, T: FloatArray, rho_liquid0: FloatArray, rho_vapor0: FloatArray,
+    rho_r: float,
+) -> Saturation:
+    """Saturation at T [K] from starting densities [mol/m³] (Akasaka's Newton iteration)."""
+    T = np.asarray(T, dtype=float)
+    dl = np.asarray(rho_liquid0, dtype=float) / rho_r
+    dv = np.asarray(rho_vapor0, dtype=float) / rho_r
+    done = np.zeros(T.shape, dtype=bool)
+    for _ in range(_MAX_ITER):
+        rl = model.alphar(T, dl * rho_r)
+        rv = model.alphar(T, dv * rho_r)
+        Jl, Jv = dl * (1.0 + rl.a01), dv * (1.0 + rv.a01)
+        Kl = np.log(dl) + rl.a00 + rl.a01
+        Kv = np.log(dv) + rv.a00 + rv.a01
+        dJl = 1.0 + 2.0 * rl.a01 + rl.a02
+        dJv = 1.0 + 2.0 * rv.a01 + rv.a02
+        dKl, dKv = dJl / dl, dJv / dv
+        F1, F2 = Jv - Jl, Kv - Kl
+        done = (np.abs(F1) <= 1e-13 * np.maximum(Jv, 1e-300)) & (np.abs(F2) < 1e-13)
+        if np.all(done):
+            break
+        det = dJv * dKl - dJl * dKv
+        with np.errstate(divide="ignore", invalid="ignore"):
+            step_l = (dJv * F2 - F1 * dKv) / det
+            step_v = (dJl * F2 - F1 * dKl) / det
+        # keep δ' > δ'' > 0 by damping the step where it would cross
+        scale = np.ones_like(T)
+        for _ in range(30):
+            nl, nv = dl + scale * step_l, dv + scale * step_v
+            bad = ~((nv > 0) & (nl > nv) & np.isfinite(nl) & np.isfinite(nv))
+            if not np.any(bad):
+                break
+            scale = np.where(bad, 0.5 * scale, scale)
+        dl = np.where(done, dl, dl + scale * step_l)
+        dv = np.where(done, dv, dv + scale * step_v)
+    ok = done & np.isfinite(dl) & np.isfinite(dv) & (dl > dv * (1 + 1e-12))
+    if not np.all(ok):
+        bad = np.asarray(T)[~ok].ravel()[0]
+        raise ConvergenceError(f"{model.info.name}: saturation did not converge at {bad:.6g} K")
+    rv = model.alphar(T, dv * rho_r)
+    P = dv * rho_r * model.R * T * (1.0 + rv.a01)
+    return Saturation(T=T, P=P, rho_liquid=dl * rho_r, rho_vapor=dv * rho_r)
+
+
+def density_bracketed(
+    model: HelmholtzModel,
+    T: FloatArray,
+    P: FloatArray,
+    *,
+    Tc: float,
+    rhoc: float,
+    saturation: Callable[[FloatArray], Saturation],
+) -> FloatArray:
+    """Molar density of the stable phase at T [K], P [Pa] for any Helmholtz model [mol/m³]."""
+    T, P = np.broadcast_arrays(np.asarray(T, dtype=float), np.asarray(P, dtype=float))
+    T, P = T.ravel().copy(), P.ravel().copy()
+    R = model.R
+    lo = np.full_like(T, 1e-12)
+    hi = np.full_like(T, np.nan)
+    guess = P / (R * T)
+    below = T < Tc
+    if np.any(below):
+        sat = saturation(T[below])
+        vapour = P[below] < sat.P
+        lo[below] = np.where(vapour, 1e-12, sat.rho_liquid)
+        hi[below] = np.where(vapour, sat.rho_vapor, np.nan)
+        guess[below] = np.where(vapour, np.minimum(guess[below], sat.rho_vapor),
+                                sat.rho_liquid * 1.001)
+    # an upper bracket where none is set yet: expand until the pressure is exceeded
+    need = ~np.isfinite(hi)
+    if np.any(need):
+        h = np.maximum(np.where(below, lo, rhoc), np.minimum(guess, model.max_density_mol()))[need]
+        h = np.minimum(h * 1.05, model.max_density_mol())
+        for _ in range(60):
+            p_h = _pressure(model, T[need], h)
+            short = p_h < P[need]
+            if not np.any(short):
+                break
+            h = np.where(short, np.minimum(h * 1.25, model.max_density_mol()), h)
+        else:
+            raise ConvergenceError(
+                f"{model.info.name}: pressure {P[need].max():.6g} Pa is beyond the equation's reach"
+            )
+        hi[need] = h
+    x = np.clip(guess, lo, hi)
+    x = np.where((x <= lo) | (x >= hi), 0.5 * (lo + hi), x)
+    done = np.zeros_like(T, dtype=bool)
+    for _ in range(_MAX_ITER):
+        d = model.alphar(T, x)
+        f = x * R * T * (1.0 + d.a01) - P
+        df = R * T * (1.0 + 2.0 * d.a01 + d.a02)
+        done = np.abs(f) <= 1e-12 * P
+        if np.all(done):
+            break
+        lo = np.where(f < 0, x, lo)
+        hi = np.where(f > 0, x, hi)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            newton = x - f / df
+        inside = np.isfinite(newton) & (newton > lo) & (newton < hi) & (df > 0)
+        x_new = np.where(inside, newton, 0.5 * (lo + hi))
+        stalled = np.abs(hi - lo) <= 1e-15 * x
+        done |= stalled
+        x = np.where(done, x, x_new)
+    if not np.all(done):
+        i = int(np.flatnonzero(~done)[0])
+        raise ConvergenceError(
+            f"{model.info.name}: no density found at T = {T[i]:.6g} K, P = {P[i]:.6g} Pa"
+        )
+    return x
+
+
+def _pressure(model: HelmholtzModel, T: FloatArray, rho: FloatArray) -> FloatArray:
+    return rho * model.R * T * (1.0 + model.alphar(T, rho).a01)
