@@ -32,7 +32,7 @@ def _vessels() -> list[tuple[str, VesselInput, float]]:
     return out
 
 
-CASES = [c for c in _vessels() if c[1].fluid.data.coolprop_name and c[1].fluid.accuracy]
+CASES = [c for c in _vessels() if c[1].fluid.data.coolprop_name and c[1].fluid.model_error]
 
 
 def test_every_demo_runs_and_shows_each_verdict() -> None:
@@ -67,7 +67,7 @@ def test_demo_vessel_against_reference_equation(
     from fillcheck.assess.vessel import assess_vessel
 
     a = assess_vessel(vessel, T_ref)
-    err = vessel.fluid.accuracy.errors[vessel.fluid.model]
+    err = vessel.fluid.model_error
     rho_ref = _reference_density(vessel, T_ref)
     by_mass = vessel.fill_kind in ("mass", "filling_ratio")
     tol_mass = 1e-12 if by_mass else err.density
@@ -92,7 +92,7 @@ def test_hydrogen_70_MPa_15_degC_density() -> None:
     # fuelling protocols use (SAE J2601, 100 % state of charge at 70 MPa, 15 °C; from memory).
     f = fillcheck.fluid("hydrogen")
     rho = f.state(T=288.15, P=70e6).rho
-    err = f.accuracy.errors[f.model].density
+    err = f.model_error.density
     assert rho == pytest.approx(40.2, rel=max(err, 0.003))
     # and the reference equation agrees with the trade figure (Leachman et al. 2009 via CoolProp)
     assert CP.PropsSI("D", "T", 288.15, "P", 70e6, "Hydrogen") == pytest.approx(40.2, rel=0.003)
@@ -103,7 +103,7 @@ def test_carbon_dioxide_vapour_pressure_at_20_degC() -> None:
     # beverage-gas charts (common practice, no source; Span & Wagner 1996 give 5.729 MPa).
     f = fillcheck.fluid("CO2")
     P = f.saturation(293.15).P
-    assert P == pytest.approx(57.29e5, rel=f.accuracy.errors[f.model].saturation_pressure)
+    assert P == pytest.approx(57.29e5, rel=f.model_error.saturation_pressure)
 
 
 def test_propane_vapour_pressure_at_20_degC() -> None:
@@ -111,7 +111,7 @@ def test_propane_vapour_pressure_at_20_degC() -> None:
     # Lemmon, McLinden & Wagner 2009 give 0.836 MPa).
     f = fillcheck.fluid("propane")
     P = f.saturation(293.15).P
-    assert P == pytest.approx(8.36e5, rel=max(f.accuracy.errors[f.model].saturation_pressure, 0.01))
+    assert P == pytest.approx(8.36e5, rel=max(f.model_error.saturation_pressure, 0.01))
 
 
 def test_closed_vessel_pressure_rises_with_temperature_for_every_demo() -> None:

@@ -12,7 +12,8 @@ Springer, and of the publications named in each fluid's data file:
 - exponential: n δ^d τ^t exp(−g δ^l)
 - gaussian: n δ^d τ^t exp(−η(δ − ε)² − β(τ − γ)²)
 - lemmon2005: n δ^d τ^t exp(−δ^l − τ^m) (Lemmon, Jacobsen (2005), J. Phys. Chem. Ref. Data 34, 69)
-- gao_b: n δ^d τ^t exp(−η(δ − ε)² + 1/(β(τ − γ)² + b)) (Gao et al. (2020), ammonia)
+- gao_b: n δ^d τ^t exp(η(δ − ε)² + 1/(β(τ − γ)² + b)) with η < 0 as published (Gao et al.
+  (2020), ammonia)
 - nonanalytic: n Δ^b δ ψ (Span, Wagner (1996), J. Phys. Chem. Ref. Data 25, 1509, eqs. 6.4–6.6
   and Table 32), with θ = (1 − τ) + A((δ − 1)²)^(1/(2β)), Δ = θ² + B((δ − 1)²)^a,
   ψ = exp(−C(δ − 1)² − D(τ − 1)²).
@@ -229,6 +230,10 @@ def _residual_block(block: dict[str, Any], where: str) -> Any:
     arr = _arrays(block, keys, where)
     if kind == "power":
         return _Power(arr["n"], arr["d"], arr["t"], np.ones_like(arr["n"]), arr["l"])
+    if kind == "gao_b":
+        # the data file keeps the publication's sign, exp(+η(δ − ε)² + …) with η < 0; the
+        # class shares the Gaussian convention exp(−η(δ − ε)²)
+        arr["eta"] = -arr["eta"]
     return cls(*(arr[k] for k in keys))
 
 

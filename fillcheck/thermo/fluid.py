@@ -31,6 +31,9 @@ from fillcheck.thermo.helmholtz_solvers import density_bracketed, saturation_new
 from fillcheck.thermo.saturation import Saturation, saturation_T
 from fillcheck.thermo.vessel import vessel_path
 
+NEAR_CRITICAL_SPAN_K = 1.0
+"""Below Tc by less than this, reference saturation starts from critical scaling [K]."""
+
 
 def _out(x: Any) -> Any:
     """A 0-d array as a Python scalar, anything else unchanged."""
@@ -158,7 +161,9 @@ class Fluid:
     def _validity(self) -> Validity:
         if self.is_reference:
             v = self.eos.validity
-            return Validity(v.T_min_K, v.T_max_K, v.P_max_Pa, f"published range of {self.eos.publication}")
+            return Validity(
+                v.T_min_K, v.T_max_K, v.P_max_Pa, f"published range of {self.eos.publication}"
+            )
         acc = self.accuracy
         if acc is not None:
             return Validity(
@@ -234,6 +239,23 @@ class Fluid:
         anc = self.eos.ancillaries
         rl = ancillary_value(anc["saturated_liquid_density"], T)
         rv = ancillary_value(anc["saturated_vapour_density"], T)
+        near = T > Tc - NEAR_CRITICAL_SPAN_K
+        if np.any(near):
+            # the ancillaries lose their shape close to Tc: start from a solution NEAR_CRITICAL
+            # kelvin below it, scaled with the critical exponent β ≈ 0.325 of real fluids
+            # (Sengers, Levelt Sengers (1986), Annu. Rev. Phys. Chem. 37, 189)
+            T1 = np.array([Tc - NEAR_CRITICAL_SPAN_K])
+            s1 = saturation_newton(
+                self.eos,
+                T1,
+                ancillary_value(anc["saturated_liquid_density"], T1),
+                ancillary_value(anc["saturated_vapour_density"], T1),
+                self.eos.rho_r,
+            )
+            rhoc = self.model_critical[2]
+            x = ((Tc - T[near]) / NEAR_CRITICAL_SPAN_K) ** 0.325
+            rl[near] = rhoc + (s1.rho_liquid[0] - rhoc) * x
+            rv[near] = rhoc + (s1.rho_vapor[0] - rhoc) * x
         return saturation_newton(self.eos, T, rl, rv, self.eos.rho_r)
 
     def saturation(self, T: FloatArray) -> SaturationState:

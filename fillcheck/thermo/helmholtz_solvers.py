@@ -29,7 +29,10 @@ _MAX_ITER = 200
 
 
 def saturation_newton(
-    model: HelmholtzModel, T: FloatArray, rho_liquid0: FloatArray, rho_vapor0: FloatArray,
+    model: HelmholtzModel,
+    T: FloatArray,
+    rho_liquid0: FloatArray,
+    rho_vapor0: FloatArray,
     rho_r: float,
 ) -> Saturation:
     """Saturation at T [K] from starting densities [mol/m³] (Akasaka's Newton iteration)."""
@@ -38,6 +41,8 @@ def saturation_newton(
     dv = np.asarray(rho_vapor0, dtype=float) / rho_r
     done = np.zeros(T.shape, dtype=bool)
     for _ in range(_MAX_ITER):
+        if np.all(done):
+            break
         rl = model.alphar(T, dl * rho_r)
         rv = model.alphar(T, dv * rho_r)
         Jl, Jv = dl * (1.0 + rl.a01), dv * (1.0 + rv.a01)
@@ -47,7 +52,9 @@ def saturation_newton(
         dJv = 1.0 + 2.0 * rv.a01 + rv.a02
         dKl, dKv = dJl / dl, dJv / dv
         F1, F2 = Jv - Jl, Kv - Kl
-        done = (np.abs(F1) <= 1e-13 * np.maximum(Jv, 1e-300)) & (np.abs(F2) < 1e-13)
+        # J of the liquid is formed with a cancellation (1 + δαʳ_δ ~ 1e-4 at the triple point):
+        # its round-off, ~1e-15·δ', sets the floor of the pressure residual
+        done |= (np.abs(F1) <= 1e-11 * Jv + 1e-12 * dl) & (np.abs(F2) < 1e-11)
         if np.all(done):
             break
         det = dJv * dKl - dJl * dKv
@@ -62,8 +69,11 @@ def saturation_newton(
             if not np.any(bad):
                 break
             scale = np.where(bad, 0.5 * scale, scale)
+        # steps at round-off level mean the residuals have reached their floor
+        tiny = (np.abs(scale * step_l) <= 1e-13 * dl) & (np.abs(scale * step_v) <= 1e-12 * dv)
         dl = np.where(done, dl, dl + scale * step_l)
         dv = np.where(done, dv, dv + scale * step_v)
+        done = done | tiny
     ok = done & np.isfinite(dl) & np.isfinite(dv) & (dl > dv * (1 + 1e-12))
     if not np.all(ok):
         bad = np.asarray(T)[~ok].ravel()[0]
@@ -95,8 +105,9 @@ def density_bracketed(
         vapour = P[below] < sat.P
         lo[below] = np.where(vapour, 1e-12, sat.rho_liquid)
         hi[below] = np.where(vapour, sat.rho_vapor, np.nan)
-        guess[below] = np.where(vapour, np.minimum(guess[below], sat.rho_vapor),
-                                sat.rho_liquid * 1.001)
+        guess[below] = np.where(
+            vapour, np.minimum(guess[below], sat.rho_vapor), sat.rho_liquid * 1.001
+        )
     # an upper bracket where none is set yet: expand until the pressure is exceeded
     need = ~np.isfinite(hi)
     if np.any(need):
