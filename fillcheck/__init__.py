@@ -3,7 +3,7 @@
 >>> import fillcheck
 >>> f = fillcheck.fluid("CO2")
 >>> f.name, f.model
-('carbon dioxide', 'pr-peneloux')
+('carbon dioxide', 'reference')
 """
 
 from __future__ import annotations

@@ -1,6 +1,8 @@
 """Measure every cubic model of every catalog gas against its reference equation of state.
 
-Development-time tool (needs CoolProp 8.0.0, which fillcheck itself never imports). Writes
+Development-time tool. The reference is fillcheck's own evaluation of each gas's published
+reference equation of state (verified against CoolProp 8.0.0 in tests/test_reference_equations.py);
+CoolProp is used here only for its melting lines, to leave solid states out. Writes
 ``fillcheck/fluids/data/cubic_accuracy.json`` (fitted Péneloux shifts and the errors that the
 checks compare with their margins) and ``docs/accuracy.md`` (the published error table).
 
@@ -35,6 +37,7 @@ sys.path.insert(0, str(ROOT))
 
 import CoolProp.CoolProp as CP  # noqa: E402
 
+import fillcheck  # noqa: E402
 from fillcheck.fluids.catalog import all_fluids  # noqa: E402
 from fillcheck.models.cubic import CUBIC_MODEL_IDS, CubicComponent, CubicModel  # noqa: E402
 from fillcheck.thermo.density import density_TP  # noqa: E402
@@ -46,40 +49,40 @@ DENSE_PRESSURE_FLOOR_Pa = 10e6
 """The pressure error of states denser than critical is measured from 10 MPa up: that is where
 the limits of a liquid-full vessel lie, and below it the relative error of a liquid's pressure
 at given density is meaningless (a 1 % density error moves 1 bar to hundreds)."""
-BIBTEX_TO_CITATION_NOTE = "reference equation of state as evaluated by CoolProp 8.0.0"
 
 
 def box_for(name: str, T_triple: float) -> tuple[float, float, float]:
     return max(223.15, T_triple + 0.5), 343.15, (100e6 if name in HIGH_PRESSURE_GASES else 50e6)
 
 
-def reference_grid(
-    cp_name: str, T_lo: float, T_hi: float, P_max: float, P_min: float = 1e5, nP: int = 40
-):
-    ref = CP.AbstractState("HEOS", cp_name)
-    Tc = ref.T_critical()
+def _solid(cp_name: str, T: float, P: float) -> bool:
+    """Whether (T, P) lies beyond the melting line (CoolProp's melting-line data, the one use
+    of CoolProp left here: fillcheck's reference equations carry no melting line)."""
+    try:
+        CP.PropsSI("D", "T", T, "P", P, cp_name)
+    except ValueError as exc:
+        return "melting" in str(exc)
+    return False
+
+
+def reference_grid(data, T_lo: float, T_hi: float, P_max: float, P_min: float = 1e5, nP: int = 40):
+    """Reference densities on the box grid and saturation states, from fillcheck's own
+    transcription of the reference equation (tests/test_reference_equations.py proves it)."""
+    ref = fillcheck.fluid(data.name, model="reference")
+    Tc, _, rhoc = ref.model_critical
     Ts = np.arange(T_lo, T_hi + 1e-9, 5.0)
     if Ts[0] != T_lo:
         Ts = np.concatenate([[T_lo], Ts])
     Ps = np.geomspace(P_min, P_max, nP)
-    rows = []
-    for T in Ts:
-        for P in Ps:
-            try:
-                ref.update(CP.PT_INPUTS, P, T)
-                rows.append((T, P, ref.rhomolar(), ref.phase()))
-            except ValueError:
-                continue
-    sat = []
-    for T in Ts[Ts < Tc * 0.999]:
-        try:
-            ref.update(CP.QT_INPUTS, 0.0, T)
-            pl, dl = ref.p(), ref.rhomolar()
-            ref.update(CP.QT_INPUTS, 1.0, T)
-            sat.append((T, pl, dl, ref.rhomolar()))
-        except ValueError:
-            continue
-    return np.array(rows), np.array(sat), ref.rhomolar_critical()
+    TT, PP = (x.ravel() for x in np.meshgrid(Ts, Ps, indexing="ij"))
+    keep = np.array([not _solid(data.coolprop_name, t, p) for t, p in zip(TT, PP, strict=True)])
+    TT, PP = TT[keep], PP[keep]
+    rho = ref.density_molar(TT, PP)
+    rows = np.column_stack([TT, PP, rho])
+    Tsat = Ts[Ts < Tc - 0.3]
+    sat = ref.saturation_molar(Tsat)
+    sat_rows = np.column_stack([Tsat, sat.P, sat.rho_liquid, sat.rho_vapor])
+    return rows, sat_rows, rhoc
 
 
 def cubic(data, kind: str, shift: float = 0.0) -> CubicModel:
@@ -98,22 +101,16 @@ def same_phase_mask(model, data, grid, sat_ref):
     """States that the model and the reference both place on the same side of saturation."""
     T, P = grid[:, 0], grid[:, 1]
     keep = np.ones(len(T), dtype=bool)
+    if len(sat_ref) == 0:
+        return keep
     Tc = data.critical_temperature_K
-    below = T < Tc * 0.999
+    below = (T < Tc * 0.999) & (T <= sat_ref[:, 0].max())
     if np.any(below):
         ms = model_sat(model, data, T[below])
-        ref = CP.AbstractState("HEOS", data.coolprop_name)
-        p_ref = []
-        for t in T[below]:
-            try:
-                ref.update(CP.QT_INPUTS, 0.0, t)
-                p_ref.append(ref.p())
-            except ValueError:
-                p_ref.append(np.nan)
-        p_ref = np.array(p_ref)
+        p_ref = np.interp(T[below], sat_ref[:, 0], sat_ref[:, 1])
         lo, hi = np.minimum(ms.P, p_ref), np.maximum(ms.P, p_ref)
         Pb = P[below]
-        keep[below] = ~((Pb >= lo * 0.995) & (Pb <= hi * 1.005)) & np.isfinite(p_ref)
+        keep[below] = ~((Pb >= lo * 0.995) & (Pb <= hi * 1.005))
     return keep
 
 
@@ -179,12 +176,12 @@ def main() -> None:
             print(f"skip {data.name}: no reference equation available to measure against")
             continue
         T_lo, T_hi, P_max = box_for(data.name, data.triple_point_temperature_K)
-        grid, sat_ref, rhoc_ref = reference_grid(data.coolprop_name, T_lo, T_hi, P_max)
+        grid, sat_ref, rhoc_ref = reference_grid(data, T_lo, T_hi, P_max)
         shift = fit_shift(data, grid, sat_ref)
         # the published table's box: -40..65 degC, 1..300 bar (700 bar for hydrogen)
         t_lo = max(233.15, data.triple_point_temperature_K + 0.5)
         tgrid, tsat, trhoc = reference_grid(
-            data.coolprop_name, t_lo, 338.15, 70e6 if data.name == "hydrogen" else 30e6
+            data, t_lo, 338.15, 70e6 if data.name == "hydrogen" else 30e6
         )
         models, table = {}, {}
         for kind in CUBIC_MODEL_IDS:
@@ -194,18 +191,18 @@ def main() -> None:
             table[kind] = t["density"]
             models[kind]["table_density"] = t["density"]
             models[kind]["table_density_mean"] = t["density_mean"]
-        key = CP.get_fluid_param_string(data.coolprop_name, "BibTeX-EOS")
+        eos = fillcheck.fluid(data.name, model="reference").eos
+        key = eos.publication
         gases[data.name] = {
             "volume_shift_m3_mol": shift,
             "box": {"T_min_K": T_lo, "T_max_K": T_hi, "P_max_Pa": P_max},
-            "reference": data.sources["critical"].split(" [CoolProp key")[0].split(" (figures")[0],
-            "reference_key": key,
+            "reference": key,
             "models": models,
         }
         table_rows.append((data.name, table, {k: models[k]["table_density_mean"] for k in table}))
         print(data.name, {k: round(v * 100, 2) for k, v in table.items()})
     out = {
-        "source": "error measured against the reference equation of state (via CoolProp 8.0.0)",
+        "source": "error measured against fillcheck's reference equation of state",
         "gases": gases,
     }
     path = ROOT / "fillcheck" / "fluids" / "data" / "cubic_accuracy.json"
@@ -220,7 +217,7 @@ def write_table(rows) -> None:
         "",
         "Largest relative density error at given temperature and pressure, in per cent, over",
         "−40 … +65 °C and 1 … 300 bar (1 … 700 bar for hydrogen), measured against the published",
-        "reference equation of state of each gas (as evaluated by CoolProp 8.0.0) on a grid of 5 K",
+        "reference equation of state of each gas (fillcheck's own evaluation) on a grid of 5 K",
         "by 40 pressures. States that the model places on the other side of the saturation curve",
         "from the reference are left out here and measured as saturation-pressure error in",
         "`fillcheck/fluids/data/cubic_accuracy.json`. The Péneloux shift of `pr-peneloux` is",

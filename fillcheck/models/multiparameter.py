@@ -376,9 +376,7 @@ class MultiparameterModel:
         except (KeyError, TypeError, ValueError) as exc:
             raise ReferenceDataError(f"{where}: missing or malformed key {exc}") from None
         self.publication = publication
-        self.info = ModelInfo(
-            "reference", f"reference equation of state ({publication})", (publication,)
-        )
+        self.info = ModelInfo("reference", "reference equation of state", (publication,))
         self._terms = [_residual_block(b, where) for b in spec["residual"]]
         self.ideal = _IdealPart(spec.get("ideal", []), self.T_r, where)
         self.ancillaries = spec.get("ancillaries", {})

@@ -99,8 +99,19 @@ def _vessel_block(v: VesselAssessment, system: units.UnitSystem, atm: float) -> 
         "pressure rise at highest temperature",
         units.pressure_rate_per_K(v.dP_dT_at_max_Pa_K, system),
     )
-    res.add_row("liquid present below", t(v.liquid_forms_below_K))
-    res.add_row("liquid-full above", t(v.liquid_full_above_K))
+    lo, hi = v.min_state.temperature_K, v.max_state.temperature_K
+
+    def where(x: float | None) -> str:
+        if x is None:
+            return "—"
+        if x < lo:
+            return f"{t(x)} (below the storage range)"
+        if x > hi:
+            return f"{t(x)} (above the storage range)"
+        return t(x)
+
+    res.add_row("liquid present below", where(v.liquid_forms_below_K))
+    res.add_row("liquid-full above", where(v.liquid_full_above_K))
     res.add_row("allowable pressure reached at", t(v.allowable_reached_at_K))
     res.add_row("relief set pressure reached at", t(v.relief_reached_at_K))
     if v.max_safe_charge_kg is not None:
