@@ -40,6 +40,9 @@ def _root() -> None:
       fillcheck check scenarios/welding_supply_refill.toml
       fillcheck check scenarios/beverage_co2_cage.toml --units us
       fillcheck check scenarios/hydrogen_bank.toml --json > result.json
+      fillcheck stop-table scenarios/welding_supply_refill.toml --vessel AR-50-014
+      fillcheck reading scenarios/welding_supply_refill.toml --vessel AR-50-014
+          --pressure "215 barg" --temperature "35 degC"
       fillcheck gases
 
     Exit status: 0 all vessels pass, 1 a vessel fails or needs review, 2 the input was refused.
@@ -97,16 +100,128 @@ def check(
 
         typer.echo(render_json(result))
     else:
-        from rich.console import Console
-
         from fillcheck.report.terminal import render_terminal
 
-        plain = bool(os.environ.get("NO_COLOR"))
-        console = Console(
-            width=width, highlight=False, no_color=plain, color_system=None if plain else "auto"
-        )
-        render_terminal(result, console, units.value)
+        render_terminal(result, _console(width), units.value)
     raise typer.Exit(EXIT_PASS if result.verdict == "pass" else EXIT_FINDINGS)
+
+
+def _console(width: int | None) -> object:
+    from rich.console import Console
+
+    plain = bool(os.environ.get("NO_COLOR"))
+    return Console(
+        width=width, highlight=False, no_color=plain, color_system=None if plain else "auto"
+    )
+
+
+def _pick(scenario: object, vessel: str | None) -> list:
+    vessels = list(scenario.vessels)  # type: ignore[attr-defined]
+    if vessel is None:
+        return vessels
+    chosen = [v for v in vessels if v.id == vessel]
+    if not chosen:
+        ids = ", ".join(v.id for v in vessels)
+        raise InputError(f"{scenario.source}: no vessel '{vessel}'; the file has {ids}")  # type: ignore[attr-defined]
+    return chosen
+
+
+@app.command("stop-table")
+def stop_table_command(
+    file: Annotated[Path, typer.Argument(help="Scenario file (.toml).", show_default=False)],
+    vessel: Annotated[str | None, typer.Option("--vessel", help="Only this vessel id.")] = None,
+    start: Annotated[str, typer.Option("--from", help="Lowest gas temperature.")] = "-10 degC",
+    stop: Annotated[str, typer.Option("--to", help="Highest gas temperature.")] = "60 degC",
+    step: Annotated[str, typer.Option("--step", help="Temperature step.")] = "5 K",
+    json_out: Annotated[bool, typer.Option("--json", help="JSON instead of the table.")] = False,
+    units: Annotated[Units, typer.Option("--units", help="Display units.")] = Units.metric,
+    width: Annotated[int | None, typer.Option("--width", help="Width in characters.")] = None,
+) -> None:
+    """Print the pressure to stop a fill at, by gas temperature, for each vessel's planned charge.
+
+    \b
+    Examples:
+      fillcheck stop-table scenarios/welding_supply_refill.toml --vessel AR-50-014
+      fillcheck stop-table scenarios/hydrogen_bank.toml --from "0 degC" --to "50 degC" --step "10 K"
+    """
+    import numpy as np
+
+    from fillcheck import units as u
+    from fillcheck.assess.planning import stop_table
+    from fillcheck.report.planning_report import planning_json, render_stop_tables
+    from fillcheck.scenario.resolve import load_scenario
+
+    try:
+        sc = load_scenario(file)
+        lo = _option(u.parse_temperature, start, "--from")
+        hi = _option(u.parse_temperature, stop, "--to")
+        dT = _option(u.parse_temperature_difference, step, "--step")
+        if not (hi > lo and dT > 0):
+            raise InputError(f"--from '{start}' must be below --to '{stop}' and --step positive")
+        temps = np.arange(lo, hi + 1e-9, dT)
+        tables = [stop_table(v, sc.reference_temperature_K, temps) for v in _pick(sc, vessel)]
+    except InputError as exc:
+        _refuse(str(exc))
+    except FillcheckError as exc:
+        typer.echo(f"fillcheck: could not complete the table: {exc}", err=True)
+        raise typer.Exit(EXIT_FINDINGS) from None
+    if json_out:
+        typer.echo(planning_json(tables))
+    else:
+        render_stop_tables(tables, _console(width), units.value, sc.atmospheric_pressure_Pa)
+
+
+@app.command("reading")
+def reading_command(
+    file: Annotated[Path, typer.Argument(help="Scenario file (.toml).", show_default=False)],
+    vessel: Annotated[str, typer.Option("--vessel", help="The vessel id.", show_default=False)],
+    pressure: Annotated[
+        str,
+        typer.Option("--pressure", help="Measured pressure, e.g. '180 barg'.", show_default=False),
+    ],
+    temperature: Annotated[
+        str,
+        typer.Option("--temperature", help="Gas temperature, e.g. '30 degC'.", show_default=False),
+    ],
+    json_out: Annotated[bool, typer.Option("--json", help="JSON instead of text.")] = False,
+    units: Annotated[Units, typer.Option("--units", help="Display units.")] = Units.metric,
+) -> None:
+    """Read a gauge: the charge, the settled pressure and how full the vessel is.
+
+    \b
+    Example:
+      fillcheck reading scenarios/welding_supply_refill.toml --vessel AR-50-014 \\
+          --pressure "215 barg" --temperature "35 degC"
+    """
+    from fillcheck import units as u
+    from fillcheck.assess.planning import read_gauge
+    from fillcheck.report.planning_report import planning_json, render_reading
+    from fillcheck.scenario.resolve import load_scenario
+
+    try:
+        sc = load_scenario(file)
+        v = _pick(sc, vessel)[0]
+        P = _option(
+            lambda x: u.parse_pressure(x, sc.atmospheric_pressure_Pa), pressure, "--pressure"
+        )
+        T = _option(u.parse_temperature, temperature, "--temperature")
+        r = read_gauge(v, sc.reference_temperature_K, P, T)
+    except InputError as exc:
+        _refuse(str(exc))
+    except FillcheckError as exc:
+        typer.echo(f"fillcheck: could not read the gauge: {exc}", err=True)
+        raise typer.Exit(EXIT_FINDINGS) from None
+    if json_out:
+        typer.echo(planning_json(r))
+    else:
+        render_reading(r, _console(None), units.value, sc.atmospheric_pressure_Pa)
+
+
+def _option(parse: object, text: str, name: str) -> float:
+    try:
+        return float(parse(text))  # type: ignore[operator]
+    except InputError as exc:
+        raise InputError(f"option {name}: {exc}") from None
 
 
 @app.command("gases")

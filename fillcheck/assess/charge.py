@@ -7,7 +7,8 @@ is the stable-root density at (T_max, P_limit): vapour-like where the limit is u
 pressure at T_max, compressed liquid where it is above (the vessel may then be nearly
 liquid-full at T_max). The filling ratio limits the density directly, and the vapour space at
 its temperature T_v limits the liquid volume fraction (ρ − ρ_v)/(ρ_l − ρ_v) to 1 − fraction.
-The smallest of these densities is the answer; the limit that gives it governs.
+A named rule set (assess.rules) adds its own largest densities. The smallest of these densities
+is the answer; the limit that gives it governs.
 """
 
 from __future__ import annotations
@@ -16,6 +17,8 @@ from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 import numpy as np
+
+from fillcheck.assess.rules import rule_limits
 
 if TYPE_CHECKING:
     from fillcheck.scenario.resolve import VesselInput
@@ -61,6 +64,13 @@ def largest_safe_density(fluid: Fluid, v: VesselInput, T_ref: float) -> SafeChar
         else:
             rho_vs = rhoc  # above Tc there is no vapour space to keep: stay below critical
         candidates.append((rho_vs, "minimum vapour space"))
+    if v.rules is not None:
+        for r in rule_limits(
+            fluid, v.rules.set, v.rules.test_pressure_Pa, v.atmospheric_pressure_Pa
+        ):
+            candidates.append(
+                (0.0 if r.density_mol is None else r.density_mol, f"{v.rules.set}: {r.name}")
+            )
     rho, governing = min(candidates)
     if not np.isfinite(rho) or rho <= 0:
         return None

@@ -18,6 +18,7 @@ import numpy as np
 
 from fillcheck import units
 from fillcheck.assess.result import Finding, VesselAssessment
+from fillcheck.assess.rules import RULES_SOURCE, rule_limits
 from fillcheck.scenario.resolve import T_HARD_MAX_K
 from fillcheck.thermo.vessel import VesselPath, vessel_path
 
@@ -111,6 +112,9 @@ def vessel_findings(
             )
         elif liquid > allowed:
             out.append(Finding("vapour-space-too-small", "fail", said))
+
+    if v.rules is not None:
+        out += _rule_findings(v, a, p, checked)
 
     # --- review -------------------------------------------------------------------------------
     inside = f.validity.contains(path.T, path.P)
@@ -272,6 +276,34 @@ def _margin(
         f"margin {sign}{_span(abs(margin), system)} "
         f"({margin / limit:+.1%}); {when}",
     )
+
+
+def _rule_findings(
+    v: VesselInput, a: VesselAssessment, p: Callable[[float], str], checked: list[str]
+) -> list[Finding]:
+    """Fail findings for every rule of the vessel's named rule set that its charge breaks."""
+    assert v.rules is not None
+    out = [
+        Finding(
+            "rule-set",
+            "info",
+            f"rule set '{v.rules.set}' with test pressure {p(v.rules.test_pressure_Pa)}, "
+            f"an example after {RULES_SOURCE}",
+        )
+    ]
+    rho = a.density_kg_m3 / v.fluid.molar_mass
+    for r in rule_limits(v.fluid, v.rules.set, v.rules.test_pressure_Pa, v.atmospheric_pressure_Pa):
+        checked.append(f"{v.rules.set}: {r.text}")
+        if r.density_mol is None or rho > r.density_mol * (1 + 1e-12):
+            out.append(
+                Finding(
+                    "rule-broken",
+                    "fail",
+                    f"the charge breaks the rule '{r.text}' of {v.rules.set} "
+                    f"(test pressure {p(v.rules.test_pressure_Pa)})",
+                )
+            )
+    return out
 
 
 def _span(dp: float, system: units.UnitSystem) -> str:

@@ -137,7 +137,7 @@ def _vessel_block(v: VesselAssessment, system: units.UnitSystem, atm: float) -> 
             Text(f.severity.upper(), style=_SEVERITY_STYLE[f.severity]), f.code, f.message
         )
 
-    parts: list = [head, entered, res, findings]
+    parts: list = [head, entered, res, Text(_fill_plan(v, p, t, system), style="bold"), findings]
     checked = "; ".join(v.limits_checked)
     word = {"pass": "passes", "fail": "fails", "review": "needs review against"}[v.verdict]
     parts.append(
@@ -150,6 +150,27 @@ def _vessel_block(v: VesselAssessment, system: units.UnitSystem, atm: float) -> 
         parts.append(Text("Cautions for this gas:", style="bold"))
         parts.extend(Text(f"  • {c}") for c in v.cautions)
     return Group(*parts)
+
+
+def _fill_plan(v: VesselAssessment, p, t, system: units.UnitSystem) -> str:
+    """The fill plan as plain sentences with units."""
+    out = []
+    if v.entered.get("fill.settled_pressure") and v.fill_pressure_Pa is not None:
+        out.append(
+            f"To settle at {p(v.settled_pressure_Pa)} at {t(v.reference_temperature_K)}, stop the "
+            f"fill at {p(v.fill_pressure_Pa)} while the gas is at {t(v.fill_temperature_K)}."
+        )
+    if v.max_safe_charge_kg is None:
+        out.append("No charge keeps every limit entered: do not fill this vessel.")
+    else:
+        s = f"Fill plan: up to {units.format_mass(v.max_safe_charge_kg, system)} per vessel"
+        if v.max_safe_fill_pressure_Pa is not None:
+            s += (
+                f"; stop the fill at {p(v.max_safe_fill_pressure_Pa)} while the gas is at "
+                f"{t(v.fill_temperature_K)}"
+            )
+        out.append(s + f" ({v.governing_limit} governs).")
+    return " ".join(out)
 
 
 def render_terminal(

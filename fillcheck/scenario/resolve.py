@@ -47,6 +47,14 @@ class Limits:
 
 
 @dataclass(frozen=True)
+class Rules:
+    """A named example rule set and the test pressure it works from [Pa absolute]."""
+
+    set: str
+    test_pressure_Pa: float
+
+
+@dataclass(frozen=True)
 class VesselInput:
     """One vessel of a scenario, validated, in SI."""
 
@@ -65,6 +73,8 @@ class VesselInput:
     """The user's own text of each quantity, keyed by field path, for the report."""
     atmospheric_pressure_Pa: float = 101_325.0
     """For gauge pressures on the report [Pa]."""
+    rules: Rules | None = None
+    """An example rule set the user named, or None."""
 
 
 @dataclass(frozen=True)
@@ -304,6 +314,7 @@ def _vessel(
                 f"below the maximum '{v.storage.max_temperature}'",
             )
     limits = _limits(v, where, P_atm, fluid, entered)
+    rules = _rules(v, where, P_atm, fluid, entered)
     return VesselInput(
         str(v.id),
         fluid,
@@ -318,7 +329,39 @@ def _vessel(
         limits,
         entered,
         P_atm,
+        rules,
     )
+
+
+RULE_CLASSES = {
+    "p200-compressed": (None, 223.15, "a critical temperature below −50 °C"),
+    "p200-high-pressure-liquefied": (223.15, 338.15, "a critical temperature from −50 to 65 °C"),
+    "p200-low-pressure-liquefied": (338.15, None, "a critical temperature above 65 °C"),
+}
+
+
+def _rules(
+    v: VesselSpec, where: _Where, P_atm: float, fluid: Fluid, entered: dict[str, str]
+) -> Rules | None:
+    if v.rules is None:
+        return None
+    entered["rules.set"] = v.rules.set
+    entered["rules.test_pressure"] = v.rules.test_pressure
+    P = where.run("rules.test_pressure", units.parse_pressure, v.rules.test_pressure, P_atm)
+    lo, hi, words = RULE_CLASSES[v.rules.set]
+    Tc = fluid.model_critical[0]
+    if (lo is not None and Tc < lo) or (hi is not None and Tc >= hi):
+        fits = next(
+            k
+            for k, (a, b, _) in RULE_CLASSES.items()
+            if (a is None or Tc >= a) and (b is None or Tc < b)
+        )
+        raise where.fail(
+            "rules.set",
+            f"'{v.rules.set}' is for gases with {words}, but {fluid.name} has "
+            f"{Tc - 273.15:.1f} °C; its rule set is '{fits}'",
+        )
+    return Rules(v.rules.set, P)
 
 
 def _temperature(text: str, field: str, where: _Where, fluid: Fluid) -> float:

@@ -46,6 +46,13 @@ class LimitsSpec(_Strict):
     vapour_space_temperature: Quantity | None = None
 
 
+class RulesSpec(_Strict):
+    """A named example rule set and the vessel's test pressure (see assess.rules)."""
+
+    set: Literal["p200-compressed", "p200-high-pressure-liquefied", "p200-low-pressure-liquefied"]
+    test_pressure: Quantity
+
+
 class GasSpec(_Strict):
     """A gas the catalog lacks, by its corresponding-states inputs (cubic models only)."""
 
@@ -73,6 +80,7 @@ class VesselSpec(_Strict):
     fill: FillSpec
     storage: StorageSpec
     limits: LimitsSpec
+    rules: RulesSpec | None = None
 
 
 class ScenarioSpec(_Strict):

@@ -1,0 +1,126 @@
+"""Fill planning at the station: stop-fill pressures by gas temperature, and reading a gauge.
+
+A fill is planned as a charge (an overall density). While the gas is warm from compression its
+pressure is higher than it will be once settled, so the pressure to stop at depends on the gas
+temperature: it is the closed-vessel pressure P(T_gas, ρ_target). Read the other way, a measured
+pressure and gas temperature give the charge, ρ(T, P), and from it the settled pressure.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from fillcheck.assess.charge import largest_safe_density
+from fillcheck.assess.vessel import fill_density_mol
+from fillcheck.errors import InputError
+from fillcheck.scenario.resolve import VesselInput
+from fillcheck.thermo.vessel import vessel_path
+
+
+@dataclass(frozen=True)
+class StopRow:
+    """One row of a stop-fill table: gas temperature [K], stop pressure [Pa abs], phase."""
+
+    gas_temperature_K: float
+    stop_pressure_Pa: float
+    phase: str
+    safe_stop_pressure_Pa: float | None
+
+
+@dataclass(frozen=True)
+class StopTable:
+    """The stop-fill table of one vessel."""
+
+    vessel_id: str
+    gas: str
+    model: str
+    target_density_kg_m3: float
+    target_charge_kg: float
+    settled_pressure_Pa: float
+    reference_temperature_K: float
+    max_safe_charge_kg: float | None
+    governing_limit: str | None
+    rows: list[StopRow]
+
+
+def stop_table(v: VesselInput, T_ref: float, temperatures_K: np.ndarray) -> StopTable:
+    """Stop-fill pressures of the vessel's planned charge over gas temperatures [K]."""
+    f = v.fluid
+    rho = fill_density_mol(v, T_ref)
+    T = np.asarray(temperatures_K, dtype=float)
+    path = vessel_path(f, T, rho)
+    safe = largest_safe_density(f, v, T_ref)
+    safe_P = vessel_path(f, T, safe.density_mol).P if safe is not None else None
+    rows = [
+        StopRow(float(t), float(p), str(ph), None if safe_P is None else float(safe_P[i]))
+        for i, (t, p, ph) in enumerate(zip(path.T, path.P, path.phase, strict=True))
+    ]
+    M = f.molar_mass
+    return StopTable(
+        vessel_id=v.id,
+        gas=f.name,
+        model=f.model,
+        target_density_kg_m3=rho * M,
+        target_charge_kg=rho * M * v.water_capacity_m3,
+        settled_pressure_Pa=float(vessel_path(f, np.array([T_ref]), rho).P[0]),
+        reference_temperature_K=T_ref,
+        max_safe_charge_kg=None if safe is None else safe.density_mol * M * v.water_capacity_m3,
+        governing_limit=None if safe is None else safe.governing,
+        rows=rows,
+    )
+
+
+@dataclass(frozen=True)
+class Reading:
+    """What a gauge reading says: charge [kg], settled pressure [Pa abs], fullness [-]."""
+
+    vessel_id: str
+    gas: str
+    model: str
+    measured_pressure_Pa: float
+    gas_temperature_K: float
+    phase: str
+    charge_kg: float
+    settled_pressure_Pa: float
+    reference_temperature_K: float
+    fraction_of_target: float
+    fraction_of_max_safe: float | None
+
+
+def read_gauge(v: VesselInput, T_ref: float, P_Pa: float, T_K: float) -> Reading:
+    """Interpret a measured pressure [Pa abs] at a gas temperature [K] for this vessel.
+
+    Raises InputError where the reading cannot tell the charge: a liquefied gas in two phases
+    shows its vapour pressure whatever its charge.
+    """
+    f = v.fluid
+    rho = float(f.density_molar(np.array([T_K]), np.array([P_Pa]))[0])
+    Tc = f.model_critical[0]
+    if T_K < Tc:
+        sat = f.saturation_molar(np.array([T_K]))
+        if abs(P_Pa / float(sat.P[0]) - 1.0) < 0.02:
+            raise InputError(
+                f"vessel '{v.id}': the reading is within 2 % of the vapour pressure of {f.name} "
+                "at that temperature, so the vessel holds liquid and its pressure says nothing "
+                "about the charge; weigh it"
+            )
+    st = vessel_path(f, np.array([T_K]), rho)
+    settled = float(vessel_path(f, np.array([T_ref]), rho).P[0])
+    target = fill_density_mol(v, T_ref)
+    safe = largest_safe_density(f, v, T_ref)
+    M = f.molar_mass
+    return Reading(
+        vessel_id=v.id,
+        gas=f.name,
+        model=f.model,
+        measured_pressure_Pa=P_Pa,
+        gas_temperature_K=T_K,
+        phase=str(st.phase[0]),
+        charge_kg=rho * M * v.water_capacity_m3,
+        settled_pressure_Pa=settled,
+        reference_temperature_K=T_ref,
+        fraction_of_target=rho / target,
+        fraction_of_max_safe=None if safe is None else rho / safe.density_mol,
+    )

@@ -1,0 +1,98 @@
+"""Renderers for fill planning: the printable stop-fill table and a gauge reading (rich, JSON)."""
+
+from __future__ import annotations
+
+import dataclasses
+import json
+from typing import Any
+
+from rich.console import Console
+from rich.rule import Rule
+from rich.table import Table
+from rich.text import Text
+
+from fillcheck import __version__, units
+from fillcheck.assess.planning import Reading, StopTable
+from fillcheck.report.terminal import CLOSING_CAUTION
+
+
+def render_stop_tables(
+    tables: list[StopTable], console: Console, system: units.UnitSystem, atm: float
+) -> None:
+    """Print one stop-fill table per vessel, made to hang at the filling station."""
+
+    def p(x: float | None) -> str:
+        return "—" if x is None else units.format_pressure(x, system, atmospheric_pressure_Pa=atm)
+
+    def t(x: float) -> str:
+        return units.format_temperature(x, system)
+
+    console.print(Rule(Text(f"fillcheck {__version__} — stop-fill table", style="bold")))
+    for st in tables:
+        console.print(
+            Text.assemble(
+                (f"Vessel {st.vessel_id}", "bold"),
+                f"  {st.gas}  (model: {st.model})",
+            )
+        )
+        console.print(
+            f"Target: {units.format_mass(st.target_charge_kg, system)} "
+            f"({units.format_filling_ratio(st.target_density_kg_m3, system)}), settling at "
+            f"{p(st.settled_pressure_Pa)} at {t(st.reference_temperature_K)}."
+        )
+        if st.max_safe_charge_kg is not None:
+            console.print(
+                f"Largest safe charge: {units.format_mass(st.max_safe_charge_kg, system)} "
+                f"({st.governing_limit} governs)."
+            )
+        table = Table(show_edge=True)
+        table.add_column("gas temperature", justify="right")
+        table.add_column("stop the fill at", justify="right")
+        table.add_column("phase")
+        table.add_column("never above (largest safe charge)", justify="right")
+        for r in st.rows:
+            table.add_row(
+                t(r.gas_temperature_K), p(r.stop_pressure_Pa), r.phase, p(r.safe_stop_pressure_Pa)
+            )
+        console.print(table)
+        if any(r.phase in ("two-phase", "liquid") for r in st.rows):
+            console.print(
+                Text(
+                    "Liquid is present at some of these temperatures: fill this gas by weight; the "
+                    "pressure column does not measure the charge there.",
+                    style="bold",
+                )
+            )
+    console.print(Text(CLOSING_CAUTION, style="italic"))
+
+
+def render_reading(r: Reading, console: Console, system: units.UnitSystem, atm: float) -> None:
+    """Print what a gauge reading means for the vessel."""
+    p = lambda x: units.format_pressure(x, system, atmospheric_pressure_Pa=atm)  # noqa: E731
+    t = lambda x: units.format_temperature(x, system)  # noqa: E731
+    console.print(Rule(Text(f"fillcheck {__version__} — gauge reading", style="bold")))
+    console.print(
+        f"Vessel {r.vessel_id} ({r.gas}, model {r.model}): {p(r.measured_pressure_Pa)} with the "
+        f"gas at {t(r.gas_temperature_K)} ({r.phase}) means a charge of "
+        f"{units.format_mass(r.charge_kg, system)}, settling at {p(r.settled_pressure_Pa)} at "
+        f"{t(r.reference_temperature_K)}."
+    )
+    line = f"That is {r.fraction_of_target:.1%} of the planned charge"
+    if r.fraction_of_max_safe is not None:
+        line += f" and {r.fraction_of_max_safe:.1%} of the largest safe charge"
+    console.print(line + ".")
+    if r.fraction_of_max_safe is not None and r.fraction_of_max_safe > 1.0:
+        console.print(
+            Text("Above the largest safe charge: do not store it this full.", style="bold red")
+        )
+    console.print(Text(CLOSING_CAUTION, style="italic"))
+
+
+def planning_json(obj: list[StopTable] | Reading) -> str:
+    """JSON of a stop-fill table list or a reading (SI units, pressures absolute)."""
+    body: Any = (
+        [dataclasses.asdict(x) for x in obj] if isinstance(obj, list) else dataclasses.asdict(obj)
+    )
+    return json.dumps(
+        {"fillcheck_version": __version__, "result": body}, indent=2, ensure_ascii=False
+    )
