@@ -62,6 +62,13 @@ def check(
     units: Annotated[
         Units, typer.Option("--units", help="Display units of the report.")
     ] = Units.metric,
+    html_out: Annotated[
+        Path | None,
+        typer.Option("--html", help="Also write a printable HTML report with a chart per vessel."),
+    ] = None,
+    force: Annotated[
+        bool, typer.Option("--force", help="Replace an existing --html file.")
+    ] = False,
     width: Annotated[
         int | None,
         typer.Option("--width", help="Report width in characters (default: the terminal's)."),
@@ -95,6 +102,16 @@ def check(
             err=True,
         )
         raise typer.Exit(EXIT_FINDINGS) from None
+    if html_out is not None:
+        from fillcheck.report.html_report import render_html, write_html
+
+        try:
+            write_html(render_html(result, units.value), html_out, force)
+        except InputError as exc:
+            _refuse(str(exc))
+        except OSError as exc:
+            _refuse(f"{html_out}: cannot be written ({exc.strerror}); choose another path")
+        typer.echo(f"fillcheck: wrote {html_out}", err=True)
     if json_out:
         from fillcheck.report.json_report import render_json
 

@@ -66,6 +66,11 @@ class VesselAssessment:
     entered: dict[str, str]
     limits_checked: list[str]
     hazards: tuple[str, ...]
+    allowable_pressure_Pa: float | None = None
+    relief_set_pressure_Pa: float | None = None
+    saturation_T_K: np.ndarray = field(default_factory=lambda: np.zeros(0))
+    saturation_P_Pa: np.ndarray = field(default_factory=lambda: np.zeros(0))
+    """The saturation curve near the storage range, for the chart (empty above Tc)."""
     findings: list[Finding] = field(default_factory=list)
     cautions: list[str] = field(default_factory=list)
 

@@ -72,6 +72,17 @@ def _validity_text(f: Fluid, system: units.UnitSystem) -> str:
     )
 
 
+def _saturation_curve(f: Fluid, grid: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Saturation pressures over the storage range widened by 10 K, below Tc [K, Pa]."""
+    Tc = f.model_critical[0]
+    lo = max(f.T_min_saturation, grid[0] - 10.0)
+    hi = min(Tc - 1e-3, grid[-1] + 10.0)
+    if hi <= lo:
+        return np.zeros(0), np.zeros(0)
+    T = np.linspace(lo, hi, 80)
+    return T, f.saturation_molar(T).P
+
+
 def assess_vessel(
     v: VesselInput, T_ref: float, system: units.UnitSystem = "metric"
 ) -> VesselAssessment:
@@ -136,6 +147,9 @@ def assess_vessel(
         limits_checked=[],
         hazards=tuple(sorted(f.data.hazards)),
     )
+    a.saturation_T_K, a.saturation_P_Pa = _saturation_curve(f, grid)
+    a.allowable_pressure_Pa = lim.allowable_pressure_Pa
+    a.relief_set_pressure_Pa = lim.relief_set_pressure_Pa
     a.findings, a.limits_checked = vessel_findings(v, a, path, system)
     liquid = bool(np.any(np.isin(path.phase, ("two-phase", "liquid"))))
     near = any(x.code == "near-critical" for x in a.findings)

@@ -13,7 +13,7 @@ from rich.text import Text
 
 from fillcheck import __version__, units
 from fillcheck.assess.planning import Reading, StopTable
-from fillcheck.report.terminal import CLOSING_CAUTION
+from fillcheck.report.content import CLOSING_CAUTION
 
 
 def render_stop_tables(

@@ -1,0 +1,101 @@
+"""Pressure–temperature chart of one vessel as inline SVG (matplotlib, imported only here).
+
+The chart shows the vessel's path over the storage range (solid where one phase, thicker where
+liquid is present), the saturation curve, the allowable pressure and the relief setting, the
+storage range as a band, the fill point, and where liquid forms or fills the vessel.
+"""
+
+from __future__ import annotations
+
+import io
+
+import numpy as np
+
+from fillcheck import units
+from fillcheck.assess.result import VesselAssessment
+
+_PSI = 6894.757293168361
+
+
+def _axes_units(system: units.UnitSystem):
+    if system == "us":
+        return (
+            lambda T: (np.asarray(T) - 273.15) * 1.8 + 32.0,
+            "temperature [°F]",
+            lambda P, atm: (np.asarray(P) - atm) / _PSI,
+            "pressure [psig]",
+        )
+    return (
+        lambda T: np.asarray(T) - 273.15,
+        "temperature [°C]",
+        lambda P, atm: (np.asarray(P) - atm) / 1e5,
+        "pressure [barg]",
+    )
+
+
+def vessel_chart_svg(
+    v: VesselAssessment,
+    system: units.UnitSystem,
+    atm: float,
+    allowable_Pa: float | None,
+    relief_Pa: float | None,
+) -> str:
+    """The chart as an SVG string (no XML declaration), sized for a printed page."""
+    import matplotlib
+
+    matplotlib.use("Agg")
+    from matplotlib import pyplot as plt
+    from matplotlib.figure import Figure
+
+    plt.rcParams["svg.fonttype"] = "none"
+    tx, tlabel, px, plabel = _axes_units(system)
+    fig = Figure(figsize=(6.3, 3.6), dpi=100)
+    ax = fig.add_subplot()
+    T, P = v.path_T_K, v.path_P_Pa
+    ax.axvspan(tx(T[0]), tx(T[-1]), color="#e8eef6", label="storage range", zorder=0)
+    if v.saturation_T_K.size:
+        ax.plot(
+            tx(v.saturation_T_K),
+            px(v.saturation_P_Pa, atm),
+            color="#6a6a6a",
+            lw=1.2,
+            ls="--",
+            label="saturation curve",
+        )
+    liquid = np.isin(v.path_phase, ("two-phase", "liquid"))
+    ax.plot(tx(T), px(P, atm), color="#1f4e8c", lw=2.0, label="vessel path")
+    if np.any(liquid):
+        Pl = np.where(liquid, P, np.nan)
+        ax.plot(tx(T), px(Pl, atm), color="#1f4e8c", lw=4.5, alpha=0.45, label="liquid present")
+    for value, name, style in (
+        (allowable_Pa, "allowable pressure", "-"),
+        (relief_Pa, "relief set pressure", ":"),
+    ):
+        if value is not None:
+            ax.axhline(px(value, atm), color="#b3261e", lw=1.3, ls=style, label=name)
+    if v.fill_temperature_K is not None and v.fill_pressure_Pa is not None:
+        ax.plot(
+            [tx(v.fill_temperature_K)],
+            [px(v.fill_pressure_Pa, atm)],
+            marker="o",
+            color="#0b7a3e",
+            ls="none",
+            label="fill point",
+        )
+    for x, name in (
+        (v.liquid_forms_below_K, "liquid forms below"),
+        (v.liquid_full_above_K, "liquid-full above"),
+    ):
+        if x is not None and T[0] <= x <= T[-1]:
+            ax.axvline(tx(x), color="#7a4b00", lw=1.0, ls="-.", label=name)
+    ax.set_xlabel(tlabel)
+    ax.set_ylabel(plabel)
+    ax.set_title(f"{v.id}: {v.gas} ({v.model})", fontsize=10)
+    ax.grid(True, lw=0.4, alpha=0.6)
+    ax.legend(fontsize=7, loc="upper left", framealpha=0.9)
+    fig.tight_layout()
+    buf = io.StringIO()
+    fig.savefig(buf, format="svg")
+    svg = buf.getvalue()
+    start = svg.find("<svg")
+    return svg[start:] if start >= 0 else svg

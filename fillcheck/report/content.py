@@ -1,0 +1,146 @@
+"""What every report says about a vessel, as plain text rows: shared by terminal and HTML.
+
+The renderers only lay these rows out; the words and the unit formatting live here once.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from fillcheck import units
+from fillcheck.assess.result import Finding, VesselAssessment
+
+ENTERED_LABELS = {
+    "water_capacity": "water capacity",
+    "fill.pressure": "fill pressure",
+    "fill.mass": "fill mass",
+    "fill.filling_ratio": "filling ratio",
+    "fill.settled_pressure": "settled pressure",
+    "fill.temperature": "gas temperature at fill",
+    "storage.min_temperature": "lowest storage temperature",
+    "storage.max_temperature": "highest storage temperature",
+    "limits.allowable_pressure": "allowable pressure",
+    "limits.relief_set_pressure": "relief set pressure",
+    "limits.max_filling_ratio": "maximum filling ratio",
+    "limits.min_vapour_space": "minimum vapour space",
+    "limits.vapour_space_temperature": "vapour space at",
+    "rules.set": "rule set",
+    "rules.test_pressure": "test pressure",
+}
+CLOSING_CAUTION = (
+    "fillcheck computes what the gas does; it does not inspect the vessel. Its verdict covers "
+    "only the limits listed above, within its models' stated accuracy. The cylinder's markings, "
+    "local codes and a licensed inspector decide; read SAFETY.md before acting on this report."
+)
+VERDICT_WORD = {"pass": "PASS", "fail": "FAIL", "review": "REVIEW"}
+SEVERITY_ORDER = {"fail": 0, "review": 1, "warning": 2, "info": 3}
+SIGN_OFF = ("Prepared by", "Checked by", "Permit number", "Date")
+
+
+@dataclass(frozen=True)
+class Formatter:
+    """Unit formatting in one unit system with the scenario's atmospheric pressure."""
+
+    system: units.UnitSystem
+    atm: float
+
+    def p(self, x: float | None, gauge: bool = True) -> str:
+        if x is None:
+            return "—"
+        return units.format_pressure(x, self.system, gauge=gauge, atmospheric_pressure_Pa=self.atm)
+
+    def t(self, x: float | None) -> str:
+        return "—" if x is None else units.format_temperature(x, self.system)
+
+    def m(self, x: float) -> str:
+        return units.format_mass(x, self.system)
+
+
+def publication(source: str) -> str:
+    """The publication part of a catalog source note (the rest stays in the catalog)."""
+    return source.split(" [CoolProp key")[0].split(" (figures")[0]
+
+
+def entered_rows(v: VesselAssessment) -> list[tuple[str, str]]:
+    """The user's inputs in their own units, then the model and its sources."""
+    rows = [(label, v.entered[key]) for key, label in ENTERED_LABELS.items() if key in v.entered]
+    rows.append(("model", f"{v.model_name} ({v.model}); {'; '.join(v.model_references)}"))
+    rows.append(("model range", v.model_validity))
+    rows.append(("gas data", publication(v.data_sources.get("critical", "—"))))
+    return rows
+
+
+def result_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
+    """The results table."""
+    p, t, s = fmt.p, fmt.t, fmt.system
+    rows = [("charge per vessel", fmt.m(v.charged_mass_kg))]
+    if v.count > 1:
+        rows.append((f"charge, {v.count} vessels", fmt.m(v.charged_mass_kg * v.count)))
+    density = units.format_density(v.density_kg_m3, s)
+    ratio = units.format_filling_ratio(v.density_kg_m3, s)
+    rows.append(("density (filling ratio)", f"{density} ({ratio})"))
+    if v.fill_pressure_Pa is not None:
+        rows.append((f"pressure at fill, {t(v.fill_temperature_K)}", p(v.fill_pressure_Pa)))
+        rows.append(("Z at fill", f"{v.fill_Z:.4f}"))
+    rows.append((f"settled pressure at {t(v.reference_temperature_K)}", p(v.settled_pressure_Pa)))
+    for label, e in (("lowest", v.min_state), ("highest", v.max_state)):
+        rows.append(
+            (f"at {label} temperature {t(e.temperature_K)}", f"{p(e.pressure_Pa)}  {e.phase}")
+        )
+    rows.append((f"Z at {t(v.max_state.temperature_K)}", f"{v.max_state.Z:.4f}"))
+    rows.append(
+        ("pressure rise at highest temperature", units.pressure_rate_per_K(v.dP_dT_at_max_Pa_K, s))
+    )
+    lo, hi = v.min_state.temperature_K, v.max_state.temperature_K
+
+    def where(x: float | None) -> str:
+        if x is None:
+            return "—"
+        if x < lo:
+            return f"{t(x)} (below the storage range)"
+        if x > hi:
+            return f"{t(x)} (above the storage range)"
+        return t(x)
+
+    rows.append(("liquid present below", where(v.liquid_forms_below_K)))
+    rows.append(("liquid-full above", where(v.liquid_full_above_K)))
+    rows.append(("allowable pressure reached at", t(v.allowable_reached_at_K)))
+    rows.append(("relief set pressure reached at", t(v.relief_reached_at_K)))
+    if v.max_safe_charge_kg is not None:
+        rows.append(
+            ("largest safe charge", f"{fmt.m(v.max_safe_charge_kg)} ({v.governing_limit} governs)")
+        )
+    return rows
+
+
+def fill_plan(v: VesselAssessment, fmt: Formatter) -> str:
+    """The fill plan as plain sentences with units."""
+    p, t = fmt.p, fmt.t
+    out = []
+    if v.entered.get("fill.settled_pressure") and v.fill_pressure_Pa is not None:
+        out.append(
+            f"To settle at {p(v.settled_pressure_Pa)} at {t(v.reference_temperature_K)}, stop the "
+            f"fill at {p(v.fill_pressure_Pa)} while the gas is at {t(v.fill_temperature_K)}."
+        )
+    if v.max_safe_charge_kg is None:
+        out.append("No charge keeps every limit entered: do not fill this vessel.")
+    else:
+        s = f"Fill plan: up to {fmt.m(v.max_safe_charge_kg)} per vessel"
+        if v.max_safe_fill_pressure_Pa is not None:
+            s += (
+                f"; stop the fill at {p(v.max_safe_fill_pressure_Pa)} while the gas is at "
+                f"{t(v.fill_temperature_K)}"
+            )
+        out.append(s + f" ({v.governing_limit} governs).")
+    return " ".join(out)
+
+
+def sorted_findings(v: VesselAssessment) -> list[Finding]:
+    """Findings, most severe first."""
+    return sorted(v.findings, key=lambda f: SEVERITY_ORDER[f.severity])
+
+
+def verdict_sentence(v: VesselAssessment) -> str:
+    """The verdict, always with the limits it covers."""
+    word = {"pass": "passes", "fail": "fails", "review": "needs review against"}[v.verdict]
+    return f"Verdict: {v.id} {word} the limits checked: {'; '.join(v.limits_checked)}."

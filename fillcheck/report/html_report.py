@@ -1,0 +1,133 @@
+"""The printable HTML report: one self-contained file with a chart per vessel.
+
+Everything the terminal report says, laid out for A4 and Letter paper (the page margins and
+column widths fit both), with an inline SVG pressure–temperature chart per vessel. Every piece
+of user text is escaped. The file is written atomically and never overwrites without ``force``.
+"""
+
+from __future__ import annotations
+
+import datetime as _dt
+import html
+import os
+import tempfile
+from pathlib import Path
+
+from fillcheck import units
+from fillcheck.assess.result import ScenarioAssessment, VesselAssessment
+from fillcheck.errors import InputError
+from fillcheck.report.chart import vessel_chart_svg
+from fillcheck.report.content import (
+    CLOSING_CAUTION,
+    SIGN_OFF,
+    VERDICT_WORD,
+    Formatter,
+    entered_rows,
+    fill_plan,
+    result_rows,
+    sorted_findings,
+    verdict_sentence,
+)
+from fillcheck.report.terminal import header_rows, tally
+
+_CSS = """
+body { font-family: "DejaVu Sans", Arial, sans-serif; font-size: 10pt; color: #111;
+       max-width: 180mm; margin: 0 auto; }
+h1 { font-size: 15pt; border-bottom: 2px solid #333; padding-bottom: 2mm; }
+h2 { font-size: 12pt; margin-top: 6mm; border-bottom: 1px solid #999; }
+table { border-collapse: collapse; width: 100%; margin: 2mm 0; }
+td, th { border: 1px solid #bbb; padding: 1mm 2mm; text-align: left; vertical-align: top; }
+th { background: #eee; }
+td.num { text-align: right; white-space: nowrap; }
+.verdict { font-weight: bold; padding: 0.5mm 2mm; border: 1.5px solid currentColor; }
+.pass { color: #0b6b2e; } .fail { color: #a3160f; } .review { color: #8a5a00; }
+.sev-fail { color: #a3160f; font-weight: bold; } .sev-review { color: #8a5a00; font-weight: bold; }
+.sev-warning { color: #6b2c91; } .sev-info { color: #555; }
+.plan { font-weight: bold; margin: 2mm 0; }
+.chart svg { width: 100%; height: auto; }
+.signoff td { height: 9mm; } .signoff td:first-child { width: 35mm; }
+.caution { font-style: italic; margin-top: 4mm; }
+section.vessel { break-inside: avoid-page; page-break-inside: avoid; }
+@page { margin: 15mm; }
+@media print { section.vessel { break-before: auto; } a { color: inherit; } }
+"""
+
+
+def _e(text: object) -> str:
+    return html.escape(str(text), quote=True)
+
+
+def _table(rows: list[tuple[str, str]], numeric: bool = False) -> str:
+    cls = ' class="num"' if numeric else ""
+    body = "".join(f"<tr><th>{_e(a)}</th><td{cls}>{_e(b)}</td></tr>" for a, b in rows)
+    return f"<table>{body}</table>"
+
+
+def _vessel(v: VesselAssessment, fmt: Formatter) -> str:
+    findings = "".join(
+        f'<tr><td class="sev-{f.severity}">{_e(f.severity.upper())}</td><td>{_e(f.code)}</td>'
+        f"<td>{_e(f.message)}</td></tr>"
+        for f in sorted_findings(v)
+    )
+    chart = vessel_chart_svg(
+        v, fmt.system, fmt.atm, v.allowable_pressure_Pa, v.relief_set_pressure_Pa
+    )
+    cautions = "".join(f"<li>{_e(c)}</li>" for c in v.cautions)
+    count = f" ×{v.count}" if v.count > 1 else ""
+    return (
+        f'<section class="vessel"><h2>Vessel {_e(v.id)} — {_e(v.gas)}{_e(count)} '
+        f'<span class="verdict {v.verdict}">{VERDICT_WORD[v.verdict]}</span></h2>'
+        f"<h3>Inputs and model</h3>{_table(entered_rows(v))}"
+        f"<h3>Results</h3>{_table(result_rows(v, fmt), numeric=True)}"
+        f'<p class="plan">{_e(fill_plan(v, fmt))}</p>'
+        f'<div class="chart">{chart}</div>'
+        f"<h3>Findings</h3><table>{findings}</table>"
+        f'<p class="verdict-line {v.verdict}"><b>{_e(verdict_sentence(v))}</b></p>'
+        + (f"<h3>Cautions for this gas</h3><ul>{cautions}</ul>" if cautions else "")
+        + "</section>"
+    )
+
+
+def render_html(
+    a: ScenarioAssessment, system: units.UnitSystem = "metric", today: _dt.date | None = None
+) -> str:
+    """The whole report as one HTML document."""
+    today = today or _dt.date.today()
+    fmt = Formatter(system, a.atmospheric_pressure_Pa)
+    sign = "".join(f"<tr><td>{_e(label)}</td><td></td></tr>" for label in SIGN_OFF)
+    title = a.title or "(untitled)"
+    return (
+        '<!DOCTYPE html>\n<html lang="en"><head><meta charset="utf-8">'
+        f"<title>fillcheck — {_e(title)}</title><style>{_CSS}</style></head><body>"
+        "<h1>fillcheck — cylinder fill and storage check</h1>"
+        f"{_table(header_rows(a, system, today))}"
+        + "".join(_vessel(v, fmt) for v in a.vessels)
+        + f'<h2>Overall verdict: <span class="verdict {a.verdict}">{VERDICT_WORD[a.verdict]}</span>'
+        f"</h2><p>{_e(tally(a))}</p>"
+        f'<h2>Sign-off</h2><table class="signoff">{sign}</table>'
+        f'<p class="caution">{_e(CLOSING_CAUTION)}</p></body></html>\n'
+    )
+
+
+def write_html(text: str, path: Path, force: bool) -> None:
+    """Write atomically: a temporary file in the same folder, then a rename.
+
+    Raises InputError if the file exists and ``force`` is not given, or the folder is missing.
+    """
+    path = Path(path)
+    if path.exists() and not force:
+        raise InputError(f"{path}: the file exists; give --force to replace it, or another name")
+    folder = path.parent if str(path.parent) else Path(".")
+    if not folder.is_dir():
+        raise InputError(f"{path}: the folder {folder} does not exist; create it first")
+    fd, tmp = tempfile.mkstemp(prefix=".fillcheck-", suffix=".html", dir=folder)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8") as fh:
+            fh.write(text)
+        umask = os.umask(0)
+        os.umask(umask)
+        os.chmod(tmp, 0o666 & ~umask)
+        os.replace(tmp, path)
+    except BaseException:
+        Path(tmp).unlink(missing_ok=True)
+        raise
