@@ -35,6 +35,8 @@ import numpy as np
 from fillcheck.models.base import FloatArray, ModelInfo, ResidualDerivatives
 
 DATA_DIR = Path(__file__).resolve().parents[1] / "fluids" / "data" / "reference"
+_CHUNK = 4096
+"""States per chunk in αʳ evaluations (keeps the states × terms arrays in cache)."""
 
 
 class ReferenceDataError(ValueError):
@@ -60,18 +62,16 @@ class _Separable:
         self.n, self.d, self.t = n, d, t
 
     def delta_part(self, delta: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
-        lnd = np.log(delta)
-        return self.d * lnd, self.d + 0.0 * lnd, 0.0 * lnd + 0.0 * self.d
+        return self.d * np.log(delta), self.d, 0.0
 
     def tau_part(self, tau: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
-        lnt = np.log(tau)
-        return self.t * lnt, self.t + 0.0 * lnt, 0.0 * lnt + 0.0 * self.t
+        return self.t * np.log(tau), self.t, 0.0
 
     def terms(self, tau: FloatArray, delta: FloatArray) -> tuple[FloatArray, ...]:
         lD, kD, dkD = self.delta_part(delta)
         lT, kT, tkT = self.tau_part(tau)
         f = self.n * np.exp(lD + lT)
-        return (
+        parts = (
             f,
             f * kD,
             f * (kD * (kD - 1.0) + dkD),
@@ -79,17 +79,49 @@ class _Separable:
             f * (kT * (kT - 1.0) + tkT),
             f * kD * kT,
         )
+        return tuple(np.sum(x, axis=-1) for x in parts)
 
 
-class _Power(_Separable):
+class _Power:
+    """n δ^d τ^t exp(−g δ^l) (g = 0 where l = 0), summed with matrix–vector products.
+
+    With x = δ^l per term: k_δ = d − g l x, δk_δ' = −g l² x, k_τ = t, so every derivative is a
+    weighted sum of f, f·x and f·x², and only one exponential of the (states × terms) array is
+    needed.
+    """
+
     def __init__(self, n, d, t, g, l) -> None:
-        super().__init__(n, d, t)
-        self.g, self.l = g * (l > 0), l
+        self.n, self.d, self.t = n, d, t
+        self.g = np.where(l > 0, g, 0.0)
+        self.l = l
+        self.has_exp = bool(np.any(self.g != 0))
+        gl = self.g * l
+        self.w_d, self.w_t = d, t
+        self.w_dd, self.w_tt, self.w_dt = d * (d - 1.0), t * (t - 1.0), d * t
+        self.w_x1 = gl  # for a01
+        self.w_xdd = gl * (2.0 * d - 1.0) + self.g * l * l  # for a02 (terms in f·x)
+        self.w_xx = gl * gl  # for a02 (terms in f·x²)
+        self.w_xt = gl * t  # for a11
 
-    def delta_part(self, delta: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
-        lD, kD, dkD = super().delta_part(delta)
-        dl = delta**self.l
-        return lD - self.g * dl, kD - self.g * self.l * dl, dkD - self.g * self.l**2 * dl
+    def terms(self, tau: FloatArray, delta: FloatArray) -> tuple[FloatArray, ...]:
+        lnd, lnt = np.log(delta), np.log(tau)
+        expo = lnd * self.d + lnt * self.t
+        if self.has_exp:
+            x = np.exp(lnd * self.l)
+            expo = expo - self.g * x
+        f = self.n * np.exp(expo)
+        a00 = f.sum(-1)
+        a01 = f @ self.w_d
+        a02 = f @ self.w_dd
+        a10 = f @ self.w_t
+        a20 = f @ self.w_tt
+        a11 = f @ self.w_dt
+        if self.has_exp:
+            fx = f * x
+            a01 = a01 - fx @ self.w_x1
+            a02 = a02 - fx @ self.w_xdd + (fx * x) @ self.w_xx
+            a11 = a11 - fx @ self.w_xt
+        return a00, a01, a02, a10, a20, a11
 
 
 class _Gaussian(_Separable):
@@ -133,10 +165,16 @@ class _GaoB(_Gaussian):
         return lT + 1.0 / D, kT + q, tkT + tq
 
 
-class _Lemmon2005(_Power):
+class _Lemmon2005(_Separable):
     def __init__(self, n, d, t, l, m) -> None:
-        super().__init__(n, d, t, np.ones_like(n), l)
-        self.m = m
+        super().__init__(n, d, t)
+        self.l, self.m = l, m
+
+    def delta_part(self, delta: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
+        lD, kD, dkD = super().delta_part(delta)
+        on = self.l > 0
+        dl = np.where(on, delta**self.l, 0.0)
+        return lD - dl, kD - self.l * dl, dkD - self.l**2 * dl
 
     def tau_part(self, tau: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
         lT, kT, tkT = super().tau_part(tau)
@@ -209,7 +247,8 @@ class _NonAnalytic:
             + Db_t * (psi + delta * psi_d)
             + Db_dt * delta * psi
         )
-        return f, delta * f_d, delta**2 * f_dd, tau * f_t, tau**2 * f_tt, tau * delta * f_dt
+        parts = (f, delta * f_d, delta**2 * f_dd, tau * f_t, tau**2 * f_tt, tau * delta * f_dt)
+        return tuple(np.sum(x, axis=-1) for x in parts)
 
 
 _RESIDUAL_TYPES: dict[str, tuple[type, tuple[str, ...]]] = {
@@ -382,16 +421,23 @@ class MultiparameterModel:
         self.ancillaries = spec.get("ancillaries", {})
 
     def alphar(self, T: FloatArray, rho_mol: FloatArray) -> ResidualDerivatives:
-        """αʳ and its scaled derivatives at T [K] and molar density ρ [mol/m³]."""
+        """αʳ and its scaled derivatives at T [K] and molar density ρ [mol/m³].
+
+        Large arrays are evaluated in chunks of states, so that the (states × terms)
+        intermediates stay in the processor's cache.
+        """
         T, rho = np.broadcast_arrays(np.asarray(T, dtype=float), np.asarray(rho_mol, dtype=float))
-        tau = (self.T_r / T)[..., None]
-        delta = (rho / self.rho_r)[..., None]
-        sums = [np.zeros(T.shape) for _ in range(6)]
-        for term in self._terms:
-            parts = term.terms(tau, delta)
-            for i in range(6):
-                sums[i] = sums[i] + parts[i].sum(-1)
-        a00, a01, a02, a10, a20, a11 = sums
+        shape = T.shape
+        tau = (self.T_r / T).reshape(-1, 1)
+        delta = (rho / self.rho_r).reshape(-1, 1)
+        n = tau.shape[0]
+        out = np.zeros((6, n))
+        for lo in range(0, n, _CHUNK):
+            hi = min(n, lo + _CHUNK)
+            t, d = tau[lo:hi], delta[lo:hi]
+            for term in self._terms:
+                out[:, lo:hi] += np.asarray(term.terms(t, d))
+        a00, a01, a02, a10, a20, a11 = (x.reshape(shape) for x in out)
         return ResidualDerivatives(a00=a00, a10=a10, a01=a01, a20=a20, a11=a11, a02=a02)
 
     def alpha0(self, T: FloatArray) -> IdealDerivatives:
