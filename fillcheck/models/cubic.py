@@ -358,14 +358,18 @@ def _cubic_real_roots(
     lo = np.where(three, z2, one)
     three &= lo > floor
     lo = np.where(three, lo, hi)
-    # polish each root with Newton steps on the cubic itself
+    # polish each root with Newton steps on the cubic itself, keeping a step only where it
+    # lowers |f| (at a triple root, the critical point, f and f' are both round-off)
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         for z in (lo, hi):
             for _ in range(3):
                 f = ((z + c2) * z + c1) * z + c0
                 df = (3.0 * z + 2.0 * c2) * z + c1
                 ok = np.isfinite(f) & np.isfinite(df) & (df != 0.0)
-                z -= np.where(ok, f / np.where(ok, df, 1.0), 0.0)
+                trial = z - np.where(ok, f / np.where(ok, df, 1.0), 0.0)
+                f_trial = ((trial + c2) * trial + c1) * trial + c0
+                better = np.isfinite(f_trial) & (np.abs(f_trial) < np.abs(f))
+                z[...] = np.where(better, trial, z)
     return lo, hi, three
 
 

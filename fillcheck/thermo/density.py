@@ -12,7 +12,6 @@ import numpy as np
 from fillcheck.errors import ConvergenceError
 from fillcheck.models.base import FloatArray, HelmholtzModel
 from fillcheck.thermo.properties import ln_fugacity_coefficient_at_pressure as _ln_phi
-from fillcheck.thermo.properties import pressure
 
 
 def phase_roots(
@@ -42,10 +41,12 @@ def density_TP(model: HelmholtzModel, T: FloatArray, P: FloatArray) -> FloatArra
     rho = np.where(g_hi < g_lo, hi, lo)
     with np.errstate(invalid="ignore"):
         ok = np.isfinite(rho) & (rho > 0) & (rho < model.max_density_mol())
-        back = np.where(ok, pressure(model, T, np.where(ok, rho, 1.0)), np.nan)
-        # a liquid at low pressure forms P = ρRT(1 + δαʳ_δ) by cancellation: its round-off,
-        # about 1e-13·ρRT, is the floor of this check
-        ok &= np.abs(back - P) <= 1e-9 * P + 1e-13 * rho * model.R * T
+        # a liquid at low pressure forms P = ρRT(1 + δαʳ_δ) by cancellation, and one unit in
+        # the last place of ρ moves P by ρ(∂P/∂ρ)_T·eps: eight such units are the floor
+        d = model.alphar(T, np.where(ok, rho, 1.0))
+        back = np.where(ok, rho * model.R * T * (1.0 + d.a01), np.nan)
+        slope = rho * model.R * T * (1.0 + 2.0 * d.a01 + d.a02)
+        ok &= np.abs(back - P) <= 1e-9 * P + 8.0 * np.finfo(float).eps * np.abs(slope)
     if not np.all(ok):
         i = np.flatnonzero(~ok.ravel())[0]
         raise ConvergenceError(
