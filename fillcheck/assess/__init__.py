@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from fillcheck.assess.batch import assess_many
 from fillcheck.assess.result import Finding, ScenarioAssessment, VesselAssessment
 from fillcheck.assess.vessel import assess_vessel
 from fillcheck.scenario.resolve import Scenario

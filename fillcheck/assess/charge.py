@@ -13,6 +13,7 @@ is the answer; the limit that gives it governs.
 
 from __future__ import annotations
 
+from collections.abc import Sequence
 from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
@@ -36,42 +37,78 @@ class SafeCharge:
     governing: str
 
 
-def largest_safe_density(fluid: Fluid, v: VesselInput, T_ref: float) -> SafeCharge | None:
-    """The greatest overall density keeping every limit of ``v`` over its storage range."""
-    lim = v.limits
-    T_max = np.array([v.max_temperature_K])
-    candidates: list[tuple[float, str]] = []
-    candidates.append(
+def largest_safe_densities(
+    fluid: Fluid, vs: Sequence[VesselInput], T_ref: float
+) -> tuple[np.ndarray, list[str | None]]:
+    """The greatest overall densities [mol/m³] keeping every limit of each vessel (one gas).
+
+    Returns the densities (NaN where no charge keeps the limits) and the governing limits.
+    """
+    n = len(vs)
+    lim = [v.limits for v in vs]
+    T_max = np.array([v.max_temperature_K for v in vs])
+    inf = np.full(n, np.inf)
+    cands: list[tuple[np.ndarray, str]] = [
         (
-            float(fluid.density_molar(T_max, np.array([lim.allowable_pressure_Pa]))[0]),
+            fluid.density_molar(T_max, np.array([x.allowable_pressure_Pa for x in lim])),
             "allowable pressure",
         )
+    ]
+    relief = np.array(
+        [np.nan if x.relief_set_pressure_Pa is None else x.relief_set_pressure_Pa for x in lim]
     )
-    if lim.relief_set_pressure_Pa is not None:
-        P = lim.relief_set_pressure_Pa * (1.0 - RELIEF_CLEARANCE)
-        candidates.append(
-            (float(fluid.density_molar(T_max, np.array([P]))[0]), "relief set pressure")
+    has = ~np.isnan(relief)
+    if np.any(has):
+        r = inf.copy()
+        r[has] = fluid.density_molar(T_max[has], relief[has] * (1.0 - RELIEF_CLEARANCE))
+        cands.append((r, "relief set pressure"))
+    fr = (
+        np.array(
+            [
+                np.inf if x.max_filling_ratio_kg_m3 is None else x.max_filling_ratio_kg_m3
+                for x in lim
+            ]
         )
-    if lim.max_filling_ratio_kg_m3 is not None:
-        candidates.append((lim.max_filling_ratio_kg_m3 / fluid.molar_mass, "maximum filling ratio"))
-    if lim.min_vapour_space is not None and lim.vapour_space_temperature_K is not None:
+        / fluid.molar_mass
+    )
+    cands.append((fr, "maximum filling ratio"))
+    Tv = np.array(
+        [
+            np.nan if x.vapour_space_temperature_K is None else x.vapour_space_temperature_K
+            for x in lim
+        ]
+    )
+    has = ~np.isnan(Tv)
+    if np.any(has):
         Tc, _, rhoc = fluid.model_critical
-        Tv = lim.vapour_space_temperature_K
-        if Tv < Tc:
-            sat = fluid.saturation_molar(np.array([Tv]))
-            l, g = float(sat.rho_liquid[0]), float(sat.rho_vapor[0])
-            rho_vs = g + (1.0 - lim.min_vapour_space) * (l - g)
-        else:
-            rho_vs = rhoc  # above Tc there is no vapour space to keep: stay below critical
-        candidates.append((rho_vs, "minimum vapour space"))
-    if v.rules is not None:
-        for r in rule_limits(
+        frac = np.array([x.min_vapour_space or 0.0 for x in lim])
+        r = inf.copy()
+        below = has & (Tv < Tc)
+        if np.any(below):
+            sat = fluid.saturation_molar(Tv[below])
+            r[below] = sat.rho_vapor + (1.0 - frac[below]) * (sat.rho_liquid - sat.rho_vapor)
+        r[has & ~below] = rhoc  # above Tc there is no vapour space to keep: stay below critical
+        cands.append((r, "minimum vapour space"))
+    for j, v in enumerate(vs):
+        if v.rules is None:
+            continue
+        for rl in rule_limits(
             fluid, v.rules.set, v.rules.test_pressure_Pa, v.atmospheric_pressure_Pa
         ):
-            candidates.append(
-                (0.0 if r.density_mol is None else r.density_mol, f"{v.rules.set}: {r.name}")
-            )
-    rho, governing = min(candidates)
-    if not np.isfinite(rho) or rho <= 0:
+            r = inf.copy()
+            r[j] = 0.0 if rl.density_mol is None else rl.density_mol
+            cands.append((r, f"{v.rules.set}: {rl.name}"))
+    stack = np.vstack([c for c, _ in cands])
+    best = stack.argmin(axis=0)
+    rho = stack[best, np.arange(n)]
+    names = [cands[b][1] for b in best]
+    bad = ~np.isfinite(rho) | (rho <= 0)
+    return np.where(bad, np.nan, rho), [None if b else nm for b, nm in zip(bad, names, strict=True)]
+
+
+def largest_safe_density(fluid: Fluid, v: VesselInput, T_ref: float) -> SafeCharge | None:
+    """The greatest overall density keeping every limit of ``v`` over its storage range."""
+    rho, names = largest_safe_densities(fluid, [v], T_ref)
+    if names[0] is None:
         return None
-    return SafeCharge(rho, governing)
+    return SafeCharge(float(rho[0]), names[0])

@@ -20,7 +20,7 @@ from fillcheck import units
 from fillcheck.assess.result import Finding, VesselAssessment
 from fillcheck.assess.rules import RULES_SOURCE, rule_limits
 from fillcheck.scenario.resolve import T_HARD_MAX_K
-from fillcheck.thermo.vessel import VesselPath, vessel_path
+from fillcheck.thermo.vessel import VesselPath
 
 if TYPE_CHECKING:
     from fillcheck.scenario.resolve import VesselInput
@@ -90,7 +90,7 @@ def vessel_findings(
     if lim.min_vapour_space is not None and lim.vapour_space_temperature_K is not None:
         Tv = lim.vapour_space_temperature_K
         checked.append(f"vapour space at least {lim.min_vapour_space:.0%} at {t(Tv)}")
-        liquid = liquid_volume_fraction(v, path.rho_mol[0], Tv)
+        liquid = a.liquid_fraction_at_vapour_space_T or 0.0
         allowed = 1.0 - lim.min_vapour_space
         me = f.model_error
         err = me.saturated_liquid_density if me is not None else None
@@ -256,7 +256,7 @@ def _margin(
 ) -> Finding:
     P_top = float(path.P.max())
     margin = limit - P_top
-    T_reach = _temperature_reaching(v, path, limit)
+    T_reach = a.limit_reached_K.get(name.split()[0])
     if T_reach is None:
         when = f"not reached up to {t(T_HARD_MAX_K)}, the upper limit of fillcheck's models"
     elif T_reach <= path.T[-1]:
@@ -308,36 +308,3 @@ def _rule_findings(
 
 def _span(dp: float, system: units.UnitSystem) -> str:
     return f"{dp / 1e5:.1f} bar" if system == "metric" else f"{dp / 6894.757293168361:.0f} psi"
-
-
-def _temperature_reaching(v: VesselInput, path: VesselPath, limit: float) -> float | None:
-    """Temperature at which the isochore reaches ``limit``, looking past the range if needed."""
-    hit = np.flatnonzero(path.P >= limit)
-    if hit.size:
-        i = hit[0]
-        if i == 0:
-            return float(path.T[0])
-        T0, T1, P0, P1 = path.T[i - 1], path.T[i], path.P[i - 1], path.P[i]
-        return float(T0 + (limit - P0) * (T1 - T0) / (P1 - P0))
-    T = np.linspace(path.T[-1], T_HARD_MAX_K, 200)
-    ext = vessel_path(v.fluid, T, path.rho_mol[0])
-    hit = np.flatnonzero(ext.P >= limit)
-    if hit.size == 0:
-        return None
-    i = max(int(hit[0]), 1)
-    T0, T1, P0, P1 = ext.T[i - 1], ext.T[i], ext.P[i - 1], ext.P[i]
-    return float(T0 + (limit - P0) * (T1 - T0) / (P1 - P0))
-
-
-def liquid_volume_fraction(v: VesselInput, rho_mol: float, T: float) -> float:
-    """Fraction of the vessel volume taken by liquid at T [K] (1 when liquid-full) [-]."""
-    st = vessel_path(v.fluid, np.array([T]), rho_mol)
-    phase = str(st.phase[0])
-    if phase == "two-phase":
-        rl, rv = float(st.rho_liquid[0]), float(st.rho_vapor[0])
-        return (rho_mol - rv) / (rl - rv)
-    if phase == "liquid":
-        return 1.0
-    if phase == "supercritical":
-        return 1.0 if rho_mol >= v.fluid.model_critical[2] else 0.0
-    return 0.0

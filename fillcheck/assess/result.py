@@ -66,6 +66,11 @@ class VesselAssessment:
     entered: dict[str, str]
     limits_checked: list[str]
     hazards: tuple[str, ...]
+    liquid_fraction_at_vapour_space_T: float | None = None
+    """Fraction of the vessel taken by liquid at the vapour-space temperature [-]."""
+    limit_reached_K: dict[str, float | None] = field(default_factory=dict)
+    """Per pressure limit ("allowable", "relief"), where the isochore reaches it, looking past
+    the storage range up to fillcheck's upper temperature [K]; None if never."""
     allowable_pressure_Pa: float | None = None
     relief_set_pressure_Pa: float | None = None
     saturation_T_K: np.ndarray = field(default_factory=lambda: np.zeros(0))

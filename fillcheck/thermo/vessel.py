@@ -81,7 +81,12 @@ def vessel_path(fluid: Fluid, T: FloatArray, rho_mol: FloatArray) -> VesselPath:
     below = T < Tc
     two = np.zeros_like(below)
     if np.any(below):
-        sat = fluid.saturation_molar(T[below])
+        # vessels of a register share their temperatures: solve each temperature once
+        T_unique, back = np.unique(T[below], return_inverse=True)
+        s = fluid.saturation_molar(T_unique)
+        sat = type(s)(
+            T=T[below], P=s.P[back], rho_liquid=s.rho_liquid[back], rho_vapor=s.rho_vapor[back]
+        )
         inside = (rho[below] > sat.rho_vapor) & (rho[below] < sat.rho_liquid)
         two[below] = inside
         rl[below] = np.where(inside, sat.rho_liquid, np.nan)
