@@ -11,7 +11,7 @@ from fillcheck.units import UnitSystem
 
 def assess_scenario(scenario: Scenario, system: UnitSystem = "metric") -> ScenarioAssessment:
     """Assess every vessel of a validated scenario (messages in the given unit system)."""
-    vessels = [assess_vessel(v, scenario.reference_temperature_K, system) for v in scenario.vessels]
+    vessels = assess_many(scenario.vessels, scenario.reference_temperature_K, system)
     return ScenarioAssessment(
         scenario.source,
         scenario.title,
@@ -21,4 +21,11 @@ def assess_scenario(scenario: Scenario, system: UnitSystem = "metric") -> Scenar
     )
 
 
-__all__ = ["Finding", "ScenarioAssessment", "VesselAssessment", "assess_scenario", "assess_vessel"]
+__all__ = [
+    "Finding",
+    "ScenarioAssessment",
+    "VesselAssessment",
+    "assess_many",
+    "assess_scenario",
+    "assess_vessel",
+]

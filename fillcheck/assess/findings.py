@@ -171,8 +171,8 @@ def vessel_findings(
             )
 
     # --- warning ------------------------------------------------------------------------------
-    if a.model != (v.fluid.model) or v.model_note:
-        out.append(Finding("model-substituted", "warning", v.model_note or ""))
+    if v.model_note:
+        out.append(Finding("model-substituted", "warning", v.model_note))
     has_liquid = np.isin(path.phase, ("two-phase", "liquid"))
     if np.any(has_liquid):
         T_liq = path.T[has_liquid]

@@ -21,6 +21,7 @@ from pydantic import ValidationError
 from fillcheck import units
 from fillcheck.errors import InputError
 from fillcheck.fluids.catalog import FluidData, lookup, user_fluid
+from fillcheck.models.registry import has_reference_equation
 from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
 from fillcheck.thermo.fluid import Fluid
 
@@ -121,6 +122,7 @@ def scenario_from_dict(raw: dict[str, Any], name: str = "<scenario>") -> Scenari
     user_gases = _user_gases(spec.gas, where)
     seen: set[str] = set()
     vessels = []
+    fluids: dict[tuple[str, bool, str | None], Fluid] = {}  # one Fluid per gas and model
     for v in spec.vessel:
         vid = str(v.id)
         if vid in seen:
@@ -129,7 +131,7 @@ def scenario_from_dict(raw: dict[str, Any], name: str = "<scenario>") -> Scenari
                 "every vessel its own id"
             )
         seen.add(vid)
-        vessels.append(_vessel(v, where.vessel(vid), P_atm, user_gases))
+        vessels.append(_vessel(v, where.vessel(vid), P_atm, user_gases, fluids))
     return Scenario(name, spec.title, T_ref, P_atm, tuple(vessels))
 
 
@@ -222,7 +224,10 @@ def _molar_mass(text: str, where: _Where, field: str) -> float:
 
 
 def _fluid_for(
-    v: VesselSpec, where: _Where, user_gases: dict[str, FluidData]
+    v: VesselSpec,
+    where: _Where,
+    user_gases: dict[str, FluidData],
+    fluids: dict[tuple[str, bool, str | None], Fluid],
 ) -> tuple[Fluid, str | None]:
     if isinstance(v.gas, dict):
         raise where.fail(
@@ -237,24 +242,29 @@ def _fluid_for(
         raise where.fail("gas", str(exc) + "; or define the gas in a [[gas]] table") from None
     note = None
     model = v.model
-    if model == "reference":
-        fl = Fluid(data)
+    if model == "reference" and not has_reference_equation(data):
+        model = None
         note = (
-            f"model 'reference' was asked for, but this version of fillcheck has no "
-            f"reference equation of state for {data.name}; the most accurate model it has, "
-            f"'{fl.model}', was used instead"
+            f"model 'reference' was asked for, but fillcheck has no reference equation of "
+            f"state for {data.name}; the most accurate model it has was used instead"
         )
-        return fl, note
-    try:
-        return Fluid(data, model), note
-    except InputError as exc:
-        raise where.fail("model", str(exc)) from None
+    key3 = (data.name, data.user_defined, model)
+    if key3 not in fluids:
+        try:
+            fluids[key3] = Fluid(data, model)
+        except InputError as exc:
+            raise where.fail("model", str(exc)) from None
+    return fluids[key3], note
 
 
 def _vessel(
-    v: VesselSpec, where: _Where, P_atm: float, user_gases: dict[str, FluidData]
+    v: VesselSpec,
+    where: _Where,
+    P_atm: float,
+    user_gases: dict[str, FluidData],
+    fluids: dict[tuple[str, bool, str | None], Fluid],
 ) -> VesselInput:
-    fluid, note = _fluid_for(v, where, user_gases)
+    fluid, note = _fluid_for(v, where, user_gases, fluids)
     entered: dict[str, str] = {"water_capacity": v.water_capacity}
     V = where.run("water_capacity", units.parse_volume, v.water_capacity)
     if V <= 0:
