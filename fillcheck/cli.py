@@ -8,6 +8,8 @@ from __future__ import annotations
 
 import os
 import sys
+from collections.abc import Callable, Iterator
+from contextlib import contextmanager
 from enum import StrEnum
 from pathlib import Path
 from typing import Annotated
@@ -17,6 +19,8 @@ import typer
 from fillcheck.errors import FillcheckError, InputError
 
 EXIT_PASS, EXIT_FINDINGS, EXIT_REFUSED = 0, 1, 2
+PROGRESS_FROM = 500
+"""Registers with at least this many vessels show a progress bar on stderr."""
 
 app = typer.Typer(
     add_completion=False,
@@ -51,7 +55,9 @@ def _root() -> None:
 
 @app.command()
 def check(
-    file: Annotated[Path, typer.Argument(help="Scenario file (.toml).", show_default=False)],
+    file: Annotated[
+        Path, typer.Argument(help="Scenario file (.toml) or register (.csv).", show_default=False)
+    ],
     json_out: Annotated[
         bool,
         typer.Option(
@@ -85,11 +91,19 @@ def check(
     Exit status: 0 all vessels pass, 1 a vessel fails or needs review, 2 the input was refused.
     """
     from fillcheck.assess import assess_scenario
-    from fillcheck.scenario.resolve import load_scenario
 
     try:
-        scenario = load_scenario(file)
-        result = assess_scenario(scenario, units.value)
+        register = file.suffix.lower() == ".csv"
+        if register:
+            from fillcheck.scenario.register import load_register
+
+            scenario = load_register(file)
+        else:
+            from fillcheck.scenario.resolve import load_scenario
+
+            scenario = load_scenario(file)
+        with _progress(len(scenario.vessels)) as tick:
+            result = assess_scenario(scenario, units.value, tick, is_register=register)
     except InputError as exc:
         _refuse(str(exc))
     except FillcheckError as exc:
@@ -130,6 +144,20 @@ def _console(width: int | None) -> object:
     return Console(
         width=width, highlight=False, no_color=plain, color_system=None if plain else "auto"
     )
+
+
+@contextmanager
+def _progress(total: int) -> Iterator[Callable[[int, int], None] | None]:
+    """A progress bar on stderr for long registers (nothing for short ones)."""
+    if total < PROGRESS_FROM:
+        yield None
+        return
+    from rich.console import Console
+    from rich.progress import Progress
+
+    with Progress(console=Console(stderr=True), transient=True) as bar:
+        task = bar.add_task("checking vessels", total=total)
+        yield lambda done, _total: bar.update(task, completed=done)
 
 
 def _pick(scenario: object, vessel: str | None) -> list:

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from collections.abc import Callable
+
 from fillcheck.assess.batch import assess_many
 from fillcheck.assess.result import Finding, ScenarioAssessment, VesselAssessment
 from fillcheck.assess.vessel import assess_vessel
@@ -9,15 +11,21 @@ from fillcheck.scenario.resolve import Scenario
 from fillcheck.units import UnitSystem
 
 
-def assess_scenario(scenario: Scenario, system: UnitSystem = "metric") -> ScenarioAssessment:
+def assess_scenario(
+    scenario: Scenario,
+    system: UnitSystem = "metric",
+    progress: Callable[[int, int], None] | None = None,
+    is_register: bool = False,
+) -> ScenarioAssessment:
     """Assess every vessel of a validated scenario (messages in the given unit system)."""
-    vessels = assess_many(scenario.vessels, scenario.reference_temperature_K, system)
+    vessels = assess_many(scenario.vessels, scenario.reference_temperature_K, system, progress)
     return ScenarioAssessment(
         scenario.source,
         scenario.title,
         scenario.reference_temperature_K,
         scenario.atmospheric_pressure_Pa,
         vessels,
+        is_register,
     )
 
 

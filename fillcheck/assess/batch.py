@@ -10,7 +10,7 @@ by vessel. A single check is a batch of one with a finer grid and exact saturati
 from __future__ import annotations
 
 from collections import defaultdict
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 
 import numpy as np
 
@@ -105,27 +105,43 @@ def _liquid_fraction(f: Fluid, T: np.ndarray, rho: np.ndarray) -> np.ndarray:
     return np.where(st.phase == "two-phase", two, single)
 
 
+CHUNK_VESSELS = 2000
+"""Vessels per vectorised call in a large batch (bounds memory; paces the progress bar)."""
+
+
 def assess_many(
-    vessels: Sequence[VesselInput], T_ref: float, system: units.UnitSystem = "metric"
+    vessels: Sequence[VesselInput],
+    T_ref: float,
+    system: units.UnitSystem = "metric",
+    progress: Callable[[int, int], None] | None = None,
 ) -> list[VesselAssessment]:
-    """Assess vessels (in their order), vectorised per gas and model."""
+    """Assess vessels (in their order), vectorised per gas and model.
+
+    ``progress(done, total)`` is called after each vectorised chunk, if given.
+    """
     groups: dict[int, list[int]] = defaultdict(list)
     for i, v in enumerate(vessels):
         groups[id(v.fluid)].append(i)
     out: list[VesselAssessment | None] = [None] * len(vessels)
+    done = 0
     for idx in groups.values():
-        vs = [vessels[i] for i in idx]
-        for i, a in zip(idx, _assess_group(vs, T_ref, system), strict=True):
-            out[i] = a
+        for lo in range(0, len(idx), CHUNK_VESSELS):
+            chunk = idx[lo : lo + CHUNK_VESSELS]
+            small = len(idx) <= SMALL_BATCH
+            vs = [vessels[i] for i in chunk]
+            for i, a in zip(chunk, _assess_group(vs, T_ref, system, small), strict=True):
+                out[i] = a
+            done += len(chunk)
+            if progress is not None:
+                progress(done, len(vessels))
     return [a for a in out if a is not None]
 
 
 def _assess_group(
-    vs: Sequence[VesselInput], T_ref: float, system: units.UnitSystem
+    vs: Sequence[VesselInput], T_ref: float, system: units.UnitSystem, small: bool
 ) -> list[VesselAssessment]:
     f = vs[0].fluid
     n = len(vs)
-    small = n <= SMALL_BATCH
     R, M = f.eos.R, f.molar_mass
     rho = fill_densities(vs, T_ref)
     TT = _grids(vs, T_ref, small)

@@ -80,6 +80,12 @@ class VesselAssessment:
     cautions: list[str] = field(default_factory=list)
 
     @property
+    def margin_to_allowable(self) -> float:
+        """(allowable − highest pressure in the range)/allowable [-]; negative when exceeded."""
+        allow = self.allowable_pressure_Pa or float("nan")
+        return (allow - float(np.max(self.path_P_Pa))) / allow
+
+    @property
     def verdict(self) -> Verdict:
         """fail if any finding fails; review if any asks for review; pass otherwise."""
         sev = {f.severity for f in self.findings}
@@ -99,6 +105,8 @@ class ScenarioAssessment:
     reference_temperature_K: float
     atmospheric_pressure_Pa: float
     vessels: list[VesselAssessment]
+    is_register: bool = False
+    """Whether the input was a register (summary first, details only for fail and review)."""
 
     @property
     def verdict(self) -> Verdict:

@@ -99,3 +99,40 @@ def vessel_chart_svg(
     svg = buf.getvalue()
     start = svg.find("<svg")
     return svg[start:] if start >= 0 else svg
+
+
+def margin_chart_svg(vessels: list[VesselAssessment]) -> str:
+    """A register's margins to the allowable pressure as a histogram, coloured by verdict."""
+    import matplotlib
+
+    matplotlib.use("Agg")
+    from matplotlib.figure import Figure
+
+    margins = {
+        k: [100.0 * v.margin_to_allowable for v in vessels if v.verdict == k]
+        for k in ("pass", "review", "fail")
+    }
+    every = [m for ms in margins.values() for m in ms]
+    lo, hi = min([*every, -5.0]), max([*every, 5.0])
+    bins = np.linspace(lo, hi, 41)
+    fig = Figure(figsize=(6.3, 2.8), dpi=100)
+    ax = fig.add_subplot()
+    colours = {"pass": "#2e7d4f", "review": "#c98a00", "fail": "#b3261e"}
+    ax.hist(
+        [margins[k] for k in colours],
+        bins=bins,
+        stacked=True,
+        color=list(colours.values()),
+        label=list(colours),
+    )
+    ax.axvline(0.0, color="#333", lw=1.0)
+    ax.set_xlabel("margin to the allowable pressure at the highest storage temperature [%]")
+    ax.set_ylabel("vessels")
+    ax.legend(fontsize=8)
+    ax.grid(True, lw=0.4, alpha=0.6)
+    fig.tight_layout()
+    buf = io.StringIO()
+    fig.savefig(buf, format="svg")
+    svg = buf.getvalue()
+    start = svg.find("<svg")
+    return svg[start:] if start >= 0 else svg

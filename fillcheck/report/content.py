@@ -144,3 +144,18 @@ def verdict_sentence(v: VesselAssessment) -> str:
     """The verdict, always with the limits it covers."""
     word = {"pass": "passes", "fail": "fails", "review": "needs review against"}[v.verdict]
     return f"Verdict: {v.id} {word} the limits checked: {'; '.join(v.limits_checked)}."
+
+
+DETAIL_LIMIT = 25
+"""A register report shows this many failing and review vessels in detail, worst first."""
+
+
+def register_summary(vessels: list[VesselAssessment]) -> dict[str, object]:
+    """Counts and the worst margins of a register (for both renderers)."""
+    counts = {k: sum(1 for v in vessels if v.verdict == k) for k in ("pass", "fail", "review")}
+    worst = sorted(vessels, key=lambda v: v.margin_to_allowable)[:10]
+    flagged = sorted(
+        (v for v in vessels if v.verdict != "pass"),
+        key=lambda v: (v.verdict != "fail", v.margin_to_allowable),
+    )
+    return {"counts": counts, "worst": worst, "flagged": flagged, "total": len(vessels)}

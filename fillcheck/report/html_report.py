@@ -16,7 +16,7 @@ from pathlib import Path
 from fillcheck import units
 from fillcheck.assess.result import ScenarioAssessment, VesselAssessment
 from fillcheck.errors import InputError
-from fillcheck.report.chart import vessel_chart_svg
+from fillcheck.report.chart import margin_chart_svg, vessel_chart_svg
 from fillcheck.report.content import (
     CLOSING_CAUTION,
     SIGN_OFF,
@@ -24,6 +24,7 @@ from fillcheck.report.content import (
     Formatter,
     entered_rows,
     fill_plan,
+    register_summary,
     result_rows,
     sorted_findings,
     verdict_sentence,
@@ -88,6 +89,42 @@ def _vessel(v: VesselAssessment, fmt: Formatter) -> str:
     )
 
 
+CHART_LIMIT = 50
+"""A register's HTML report draws at most this many vessel charts (the worst first)."""
+
+
+def _body(a: ScenarioAssessment, fmt: Formatter) -> str:
+    if not a.is_register:
+        return "".join(_vessel(v, fmt) for v in a.vessels)
+    summary = register_summary(a.vessels)
+    c = summary["counts"]
+    rows = "".join(
+        f'<tr><td>{_e(v.id)}</td><td>{_e(v.gas)}</td><td class="num">'
+        f'{_e(fmt.p(float(max(v.path_P_Pa))))}</td><td class="num">'
+        f'{_e(fmt.p(v.allowable_pressure_Pa))}</td><td class="num">'
+        f'{v.margin_to_allowable:+.1%}</td><td class="{v.verdict}">'
+        f"{VERDICT_WORD[v.verdict]}</td></tr>"
+        for v in summary["worst"]
+    )
+    flagged = summary["flagged"]
+    shown = flagged[:CHART_LIMIT]
+    more = len(flagged) - len(shown)
+    note = (
+        f"<p>{more} more failing or review vessels are listed in the JSON output.</p>"
+        if more
+        else ""
+    )
+    return (
+        f"<h2>Register summary</h2><p>{summary['total']} vessels: {c['pass']} pass, "
+        f"{c['fail']} fail, {c['review']} need review.</p>"
+        f'<div class="chart">{margin_chart_svg(a.vessels)}</div>'
+        "<h3>Smallest margins to the allowable pressure</h3><table><tr><th>vessel</th>"
+        "<th>gas</th><th>highest pressure</th><th>allowable</th><th>margin</th><th>verdict</th>"
+        f"</tr>{rows}</table><h2>Failing and review vessels, worst first</h2>{note}"
+        + "".join(_vessel(v, fmt) for v in shown)
+    )
+
+
 def render_html(
     a: ScenarioAssessment, system: units.UnitSystem = "metric", today: _dt.date | None = None
 ) -> str:
@@ -101,7 +138,7 @@ def render_html(
         f"<title>fillcheck — {_e(title)}</title><style>{_CSS}</style></head><body>"
         "<h1>fillcheck — cylinder fill and storage check</h1>"
         f"{_table(header_rows(a, system, today))}"
-        + "".join(_vessel(v, fmt) for v in a.vessels)
+        + _body(a, fmt)
         + f'<h2>Overall verdict: <span class="verdict {a.verdict}">{VERDICT_WORD[a.verdict]}</span>'
         f"</h2><p>{_e(tally(a))}</p>"
         f'<h2>Sign-off</h2><table class="signoff">{sign}</table>'

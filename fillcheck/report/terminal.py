@@ -14,11 +14,13 @@ from fillcheck import __version__, units
 from fillcheck.assess.result import ScenarioAssessment, VesselAssessment
 from fillcheck.report.content import (
     CLOSING_CAUTION,
+    DETAIL_LIMIT,
     SIGN_OFF,
     VERDICT_WORD,
     Formatter,
     entered_rows,
     fill_plan,
+    register_summary,
     result_rows,
     sorted_findings,
     verdict_sentence,
@@ -84,7 +86,35 @@ def render_terminal(
     for row in header_rows(a, system, today):
         meta.add_row(*row)
     console.print(meta)
-    for v in a.vessels:
+    shown = a.vessels
+    if a.is_register:
+        summary = register_summary(a.vessels)
+        console.print(Rule(Text("Register summary", style="bold")))
+        c = summary["counts"]
+        console.print(
+            f"{summary['total']} vessels: {c['pass']} pass, {c['fail']} fail, "
+            f"{c['review']} need review."
+        )
+        worst = Table(title="Smallest margins to the allowable pressure", title_justify="left")
+        for col in ("vessel", "gas", "highest pressure", "allowable", "margin", "verdict"):
+            worst.add_column(col, justify="right" if col in ("margin",) else "left")
+        for v in summary["worst"]:
+            worst.add_row(
+                v.id,
+                v.gas,
+                fmt.p(float(max(v.path_P_Pa))),
+                fmt.p(v.allowable_pressure_Pa),
+                f"{v.margin_to_allowable:+.1%}",
+                _verdict_text(v.verdict),
+            )
+        console.print(worst)
+        shown = summary["flagged"][:DETAIL_LIMIT]
+        rest = len(summary["flagged"]) - len(shown)
+        console.print(
+            "Failing and review vessels in detail, worst first"
+            + (f" (the first {len(shown)}; {rest} more in --json or --html)." if rest else ".")
+        )
+    for v in shown:
         console.print(Rule())
         console.print(_vessel_block(v, fmt))
     console.print(Rule())

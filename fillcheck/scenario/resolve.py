@@ -110,41 +110,55 @@ def load_scenario(path: str | Path) -> Scenario:
     return scenario_from_dict(raw, name)
 
 
-def scenario_from_dict(raw: dict[str, Any], name: str = "<scenario>") -> Scenario:
-    """Validate a scenario given as a dictionary (as parsed from TOML)."""
+def scenario_from_dict(
+    raw: dict[str, Any], name: str = "<scenario>", columns: dict[str, str] | None = None
+) -> Scenario:
+    """Validate a scenario given as a dictionary (as parsed from TOML).
+
+    With ``columns`` (field path -> register column), vessel i is row i + 2 of a register and
+    messages name the row and the column.
+    """
     try:
         spec = ScenarioSpec.model_validate(raw)
     except ValidationError as exc:
-        raise InputError(_pydantic_sentence(exc, raw, name)) from None
-    where = _Where(name)
+        raise InputError(_pydantic_sentence(exc, raw, name, columns)) from None
+    where = _Where(name, columns=columns)
     T_ref = where.run("reference_temperature", units.parse_temperature, spec.reference_temperature)
     P_atm = where.run("atmospheric_pressure", units.parse_pressure, spec.atmospheric_pressure)
     user_gases = _user_gases(spec.gas, where)
     seen: set[str] = set()
     vessels = []
     fluids: dict[tuple[str, bool, str | None], Fluid] = {}  # one Fluid per gas and model
-    for v in spec.vessel:
+    for i, v in enumerate(spec.vessel):
         vid = str(v.id)
+        w = where.vessel(vid, i + 2 if columns is not None else None)
         if vid in seen:
-            raise InputError(
-                f"{name}: vessel '{vid}', field 'id': the id is used twice; give "
-                "every vessel its own id"
-            )
+            raise w.fail("id", "the id is used twice; give every vessel its own id")
         seen.add(vid)
-        vessels.append(_vessel(v, where.vessel(vid), P_atm, user_gases, fluids))
+        vessels.append(_vessel(v, w, P_atm, user_gases, fluids))
     return Scenario(name, spec.title, T_ref, P_atm, tuple(vessels))
 
 
 class _Where:
-    """Prefixes messages with file, vessel and field."""
+    """Prefixes messages with file, vessel and field (or, for a register, row and column)."""
 
-    def __init__(self, file: str, vessel: str | None = None) -> None:
-        self.file, self.vessel_id = file, vessel
+    def __init__(
+        self,
+        file: str,
+        vessel: str | None = None,
+        row: int | None = None,
+        columns: dict[str, str] | None = None,
+    ) -> None:
+        self.file, self.vessel_id, self.row, self.columns = file, vessel, row, columns
 
-    def vessel(self, vid: str) -> _Where:
-        return _Where(self.file, vid)
+    def vessel(self, vid: str, row: int | None = None) -> _Where:
+        return _Where(self.file, vid, row, self.columns)
 
     def fail(self, field: str, what: str) -> InputError:
+        if self.columns is not None:
+            at = f"row {self.row} (vessel '{self.vessel_id}'), " if self.row is not None else ""
+            col = self.columns.get(field, field)
+            return InputError(f"{self.file}: {at}column '{col}': {what}")
         at = f"vessel '{self.vessel_id}', " if self.vessel_id is not None else ""
         return InputError(f"{self.file}: {at}field '{field}': {what}")
 
@@ -239,7 +253,8 @@ def _fluid_for(
     try:
         data = user_gases[key] if key in user_gases else lookup(v.gas)
     except InputError as exc:
-        raise where.fail("gas", str(exc) + "; or define the gas in a [[gas]] table") from None
+        hint = "" if where.columns is not None else "; or define the gas in a [[gas]] table"
+        raise where.fail("gas", str(exc) + hint) from None
     note = None
     model = v.model
     if model == "reference" and not has_reference_equation(data):
@@ -273,6 +288,13 @@ def _vessel(
         raise where.fail("count", f"{v.count} is not a number of vessels; give 1 or more")
     given = [k for k in FILL_KINDS if getattr(v.fill, k) is not None]
     if len(given) != 1:
+        if where.columns is not None:
+            names = [where.columns[f"fill.{k}"] for k in FILL_KINDS]
+            what = "none" if not given else " and ".join(where.columns[f"fill.{k}"] for k in given)
+            raise InputError(
+                f"{where.file}: row {where.row} (vessel '{where.vessel_id}'): fills {what} of the "
+                f"columns {', '.join(names)}; fill exactly one"
+            )
         what = "none of" if not given else f"{' and '.join(given)}, more than one of"
         raise where.fail(
             "fill",
@@ -434,7 +456,9 @@ def _limits(
     return Limits(allow, relief, fr, vs, vs_T)
 
 
-def _pydantic_sentence(exc: ValidationError, raw: dict[str, Any], file: str) -> str:
+def _pydantic_sentence(
+    exc: ValidationError, raw: dict[str, Any], file: str, columns: dict[str, str] | None = None
+) -> str:
     """The first pydantic error as one sentence naming file, vessel and field."""
     errors = exc.errors()
     # an unknown key explains a "missing" one next to it (a typo), so it is reported first
@@ -446,6 +470,8 @@ def _pydantic_sentence(exc: ValidationError, raw: dict[str, Any], file: str) -> 
         items = raw.get("vessel") or []
         vid = items[idx].get("id") if idx < len(items) and isinstance(items[idx], dict) else None
         vessel = f"vessel '{vid}', " if vid is not None else f"vessel number {idx + 1}, "
+        if columns is not None:
+            vessel = f"row {idx + 2} (vessel '{vid}'), "
         loc = loc[2:]
     loc = [
         p
@@ -500,6 +526,8 @@ def _pydantic_sentence(exc: ValidationError, raw: dict[str, Any], file: str) -> 
         what = f"has {_shown(err.get('input'))}, but needs a table of keys"
     else:
         what = err["msg"]
+    if columns is not None:
+        return f"{file}: {vessel}column '{columns.get(field, field)}': {what}"
     return f"{file}: {vessel}field '{field}': {what}"
 
 

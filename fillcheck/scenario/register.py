@@ -1,0 +1,98 @@
+"""A register of vessels (CSV): one vessel a row, the columns of INTERFACES.md §2.
+
+Cells are the same quantity strings as in a scenario file; an empty cell is an absent value; an
+unknown column is refused by name; errors name the row and the column.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+from pathlib import Path
+
+from fillcheck.errors import InputError
+from fillcheck.scenario.resolve import Scenario, scenario_from_dict
+
+COLUMNS: dict[str, str] = {
+    "id": "id",
+    "gas": "gas",
+    "water_capacity": "water_capacity",
+    "fill_pressure": "fill.pressure",
+    "fill_mass": "fill.mass",
+    "filling_ratio": "fill.filling_ratio",
+    "settled_pressure": "fill.settled_pressure",
+    "fill_temperature": "fill.temperature",
+    "max_temperature": "storage.max_temperature",
+    "min_temperature": "storage.min_temperature",
+    "allowable_pressure": "limits.allowable_pressure",
+    "relief_set_pressure": "limits.relief_set_pressure",
+    "max_filling_ratio": "limits.max_filling_ratio",
+}
+"""Register column -> scenario field path."""
+REQUIRED = ("id", "gas", "water_capacity", "max_temperature", "allowable_pressure")
+FIELDS = {v: k for k, v in COLUMNS.items()}
+"""Scenario field path -> register column (for messages)."""
+
+
+def load_register(path: str | Path, title: str | None = None) -> Scenario:
+    """Read and validate a CSV register of vessels."""
+    p = Path(path)
+    if not p.exists():
+        raise InputError(f"{path}: no such file; give the path of a register (.csv) file")
+    if p.is_dir():
+        raise InputError(f"{path}: is a folder; give the path of a register (.csv) file")
+    try:
+        text = p.read_text(encoding="utf-8-sig")
+    except UnicodeDecodeError:
+        raise InputError(
+            f"{p.name}: is not a UTF-8 text file; save the register as UTF-8 CSV"
+        ) from None
+    return register_from_text(text, p.name, title)
+
+
+def register_from_text(text: str, name: str, title: str | None = None) -> Scenario:
+    """Validate a register given as CSV text."""
+    reader = csv.reader(io.StringIO(text))
+    try:
+        header = next(reader)
+    except StopIteration:
+        raise InputError(f"{name}: is empty; the first row must name the columns") from None
+    header = [h.strip() for h in header]
+    for col in header:
+        if col not in COLUMNS:
+            raise InputError(
+                f"{name}: column '{col}' is not a register column; the columns are "
+                f"{', '.join(COLUMNS)}"
+            )
+    if len(set(header)) != len(header):
+        twice = next(h for h in header if header.count(h) > 1)
+        raise InputError(f"{name}: column '{twice}' appears twice; give each column once")
+    for col in REQUIRED:
+        if col not in header:
+            raise InputError(f"{name}: the required column '{col}' is missing")
+    vessels = []
+    for n, row in enumerate(reader, start=2):
+        if not any(cell.strip() for cell in row):
+            raise InputError(f"{name}: row {n} is empty; remove it")
+        if len(row) != len(header):
+            raise InputError(
+                f"{name}: row {n} has {len(row)} cells but the header has {len(header)} columns"
+            )
+        vessel: dict[str, object] = {}
+        for col, cell in zip(header, row, strict=True):
+            cell = cell.strip()
+            if not cell:
+                continue
+            path = COLUMNS[col].split(".")
+            target = vessel
+            for key in path[:-1]:
+                target = target.setdefault(key, {})  # type: ignore[assignment]
+            target[path[-1]] = cell  # type: ignore[index]
+        for table in ("fill", "storage", "limits"):
+            vessel.setdefault(table, {})
+        vessels.append(vessel)
+    if not vessels:
+        raise InputError(f"{name}: has a header but no vessels; add one vessel a row")
+    return scenario_from_dict(
+        {"title": title, "vessel": vessels} if title else {"vessel": vessels}, name, FIELDS
+    )
