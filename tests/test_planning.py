@@ -111,13 +111,14 @@ def test_gauge_reading_of_a_liquefied_gas_is_refused() -> None:
     ],
 )
 def test_largest_safe_charge_brackets_every_limit(gas, fill, limits, expected) -> None:
-    v, T_ref = _vessel(gas, fill, limits)
+    storage = {"max_temperature": "50 degC"} if gas == "propane" else None
+    v, T_ref = _vessel(gas, fill, limits, storage)
     safe = largest_safe_density(v.fluid, v, T_ref)
     assert safe is not None and safe.governing == expected
     M = v.fluid.molar_mass
     for factor, must_pass in ((0.999, True), (1.001, False)):
         mass = safe.density_mol * factor * M * v.water_capacity_m3
-        vv, _ = _vessel(gas, {"mass": f"{mass!r} kg"}, limits)
+        vv, _ = _vessel(gas, {"mass": f"{mass!r} kg"}, limits, storage)
         a = assess_vessel(vv, T_ref)
         fails = {f.code for f in a.findings if f.severity == "fail"}
         if must_pass:
@@ -180,3 +181,31 @@ def test_rule_set_for_the_wrong_kind_of_gas_is_refused() -> None:
             {"allowable_pressure": "300 barg"},
             rules={"set": "p200-low-pressure-liquefied", "test_pressure": "300 barg"},
         )
+
+
+def test_following_the_printed_fill_plan_passes_for_every_demo_vessel() -> None:
+    # A plan followed to its printed (rounded) figures must keep every limit: the largest safe
+    # charge keeps the model's uncertainty and a clearance below each pressure limit.
+    import dataclasses
+    import math
+    from pathlib import Path
+
+    from fillcheck.assess import assess_scenario
+    from fillcheck.scenario.resolve import load_scenario
+
+    root = Path(__file__).resolve().parents[1] / "scenarios"
+    for path in sorted(root.glob("*.toml")):
+        sc = load_scenario(path)
+        for v, a in zip(sc.vessels, assess_scenario(sc).vessels, strict=True):
+            if a.max_safe_charge_kg is None:
+                continue
+            printed = math.floor(a.max_safe_charge_kg * 100.0) / 100.0  # shown to 10 g
+            planned = dataclasses.replace(v, fill_kind="mass", fill_value=printed)
+            b = assess_vessel(planned, sc.reference_temperature_K)
+            fails = [f.code for f in b.findings if f.severity == "fail"]
+            reviews = [
+                f.code
+                for f in b.findings
+                if f.severity == "review" and f.code == "margin-below-model-error"
+            ]
+            assert not fails and not reviews, (path.name, v.id, fails, reviews)

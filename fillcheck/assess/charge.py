@@ -9,6 +9,11 @@ liquid-full at T_max). The filling ratio limits the density directly, and the va
 its temperature T_v limits the liquid volume fraction (ρ − ρ_v)/(ρ_l − ρ_v) to 1 − fraction.
 A named rule set (assess.rules) adds its own largest densities. The smallest of these densities
 is the answer; the limit that gives it governs.
+
+Two rules are built in: every pressure limit is kept with the model's pressure uncertainty at
+that state plus a clearance of 0.1 % (assess.uncertainty), so that the plan, followed, passes;
+and the vessel must not be liquid-full at its highest storage temperature, where a few kelvin
+more would raise the pressure by tens of bar.
 """
 
 from __future__ import annotations
@@ -20,6 +25,8 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from fillcheck.assess.rules import rule_limits
+from fillcheck.assess.uncertainty import REFERENCE_DENSITY_UNCERTAINTY, pressure_uncertainty
+from fillcheck.thermo.vessel import vessel_path
 
 if TYPE_CHECKING:
     from fillcheck.scenario.resolve import VesselInput
@@ -50,7 +57,7 @@ def largest_safe_densities(
     inf = np.full(n, np.inf)
     cands: list[tuple[np.ndarray, str]] = [
         (
-            fluid.density_molar(T_max, np.array([x.allowable_pressure_Pa for x in lim])),
+            _under(fluid, T_max, np.array([x.allowable_pressure_Pa for x in lim])),
             "allowable pressure",
         )
     ]
@@ -60,8 +67,13 @@ def largest_safe_densities(
     has = ~np.isnan(relief)
     if np.any(has):
         r = inf.copy()
-        r[has] = fluid.density_molar(T_max[has], relief[has] * (1.0 - RELIEF_CLEARANCE))
+        r[has] = _under(fluid, T_max[has], relief[has] * (1.0 - RELIEF_CLEARANCE))
         cands.append((r, "relief set pressure"))
+    below = T_max < fluid.model_critical[0]
+    if np.any(below):
+        r = inf.copy()
+        r[below] = fluid.saturation_molar(T_max[below]).rho_liquid * (1.0 - _liquid_u(fluid))
+        cands.append((r, "liquid-full at the highest storage temperature (built in)"))
     fr = (
         np.array(
             [
@@ -104,6 +116,28 @@ def largest_safe_densities(
     names = [cands[b][1] for b in best]
     bad = ~np.isfinite(rho) | (rho <= 0)
     return np.where(bad, np.nan, rho), [None if b else nm for b, nm in zip(bad, names, strict=True)]
+
+
+SAFETY_CLEARANCE = 1e-3
+"""Relative clearance kept below every pressure limit beyond the model's uncertainty [-], so that
+a plan followed to its printed (rounded) figures still passes."""
+
+
+def _under(fluid: Fluid, T: np.ndarray, P: np.ndarray) -> np.ndarray:
+    """The largest density whose pressure at T stays below P by the model's uncertainty."""
+    rho = fluid.density_molar(T, P)
+    for _ in range(2):
+        u = np.nan_to_num(pressure_uncertainty(fluid, T, rho, vessel_path(fluid, T, rho).phase))
+        rho = fluid.density_molar(T, P * (1.0 - u - SAFETY_CLEARANCE))
+    return rho
+
+
+def _liquid_u(fluid: Fluid) -> float:
+    """Relative uncertainty of the saturated-liquid density [-]."""
+    if fluid.is_reference:
+        return REFERENCE_DENSITY_UNCERTAINTY
+    err = fluid.model_error
+    return 0.0 if err is None else err.saturated_liquid_density
 
 
 def largest_safe_density(fluid: Fluid, v: VesselInput, T_ref: float) -> SafeCharge | None:

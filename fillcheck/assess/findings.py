@@ -19,6 +19,7 @@ import numpy as np
 from fillcheck import units
 from fillcheck.assess.result import Finding, VesselAssessment
 from fillcheck.assess.rules import RULES_SOURCE, rule_limits
+from fillcheck.assess.uncertainty import pressure_uncertainty
 from fillcheck.scenario.resolve import T_HARD_MAX_K
 from fillcheck.thermo.vessel import VesselPath
 
@@ -150,25 +151,30 @@ def vessel_findings(
             )
         )
     else:
-        err = f.model_error
-        phase_top = str(path.phase[i_top])
-        dense = path.rho_mol[i_top] >= f.model_critical[2]
-        if phase_top == "two-phase":
-            rel = err.saturation_pressure or 0.0
-        else:
-            rel = err.pressure_dense if dense else err.pressure
-        margin = (lim.allowable_pressure_Pa - P_top) / lim.allowable_pressure_Pa
-        if 0.0 <= margin < rel:
-            state = "dense fluid" if dense and phase_top != "two-phase" else phase_top
-            out.append(
-                Finding(
-                    "margin-below-model-error",
-                    "review",
-                    f"the margin to the allowable pressure ({margin:.1%}) is smaller than the "
-                    f"{f.model} model's measured pressure error for {f.name} as {state} "
-                    f"({rel:.1%}); a reference equation of state is needed to decide",
+        u_top = float(
+            pressure_uncertainty(f, path.T[i_top], path.rho_mol[i_top], path.phase[i_top])
+        )
+        source = (
+            "the reference equation's uncertainty"
+            if f.is_reference
+            else f"the {f.model} model's error measured for {f.name}"
+        )
+        limits = [("allowable pressure", lim.allowable_pressure_Pa)]
+        if lim.relief_set_pressure_Pa is not None:
+            limits.append(("relief set pressure", lim.relief_set_pressure_Pa))
+        limits += _rule_pressure_limits(v)
+        for name, L in limits:
+            margin = (L - P_top) / L
+            if 0.0 <= margin < u_top:
+                out.append(
+                    Finding(
+                        "margin-below-model-error",
+                        "review",
+                        f"the highest pressure, {p(P_top)} at {t(path.T[i_top])}, lies "
+                        f"{margin:.1%} below the {name} {p(L)}: less than {source} there "
+                        f"({u_top:.1%}, {path.phase[i_top]}), so the margin cannot be vouched for",
+                    )
                 )
-            )
 
     # --- warning ------------------------------------------------------------------------------
     if v.model_note:
@@ -276,6 +282,13 @@ def _margin(
         f"margin {sign}{_span(abs(margin), system)} "
         f"({margin / limit:+.1%}); {when}",
     )
+
+
+def _rule_pressure_limits(v: VesselInput) -> list[tuple[str, float]]:
+    """Pressure limits of a rule set that apply over the storage range (at 65 °C)."""
+    if v.rules is None or v.max_temperature_K < 338.15 - 1e-9:
+        return []
+    return [(f"test pressure ({v.rules.set})", v.rules.test_pressure_Pa)]
 
 
 def _rule_findings(

@@ -419,6 +419,7 @@ class MultiparameterModel:
         self._terms = [_residual_block(b, where) for b in spec["residual"]]
         self.ideal = _IdealPart(spec.get("ideal", []), self.T_r, where)
         self.ancillaries = spec.get("ancillaries", {})
+        self.pseudo_pure = bool(spec.get("pseudo_pure", False))
 
     def alphar(self, T: FloatArray, rho_mol: FloatArray) -> ResidualDerivatives:
         """αʳ and its scaled derivatives at T [K] and molar density ρ [mol/m³].

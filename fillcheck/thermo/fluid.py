@@ -27,7 +27,11 @@ from fillcheck.models.multiparameter import (
 from fillcheck.models.registry import build_model, default_model_id
 from fillcheck.thermo import properties as props
 from fillcheck.thermo.density import density_TP
-from fillcheck.thermo.helmholtz_solvers import density_bracketed, saturation_newton
+from fillcheck.thermo.helmholtz_solvers import (
+    density_bracketed,
+    loop_closure,
+    saturation_newton,
+)
 from fillcheck.thermo.saturation import Saturation, saturation_T
 from fillcheck.thermo.vessel import vessel_path
 
@@ -136,6 +140,11 @@ class Fluid:
         Tc, Pc, rhoc_mol = self.eos.critical_point()
         self.model_critical = (Tc, Pc, rhoc_mol)
         self.is_reference = isinstance(self.eos, MultiparameterModel)
+        if self.is_reference and self.eos.pseudo_pure:
+            # a pseudo-pure mixture (air): its equation's own two-phase loop closes below the
+            # listed critical point, and the saturation of the equation ends there
+            Tc, Pc, rhoc_mol = loop_closure(self.eos, Tc, rhoc_mol)
+            self.model_critical = (Tc, Pc, rhoc_mol)
         self.T_min_saturation = (
             max(self.eos.T_triple, data.triple_point_temperature_K)
             if self.is_reference
@@ -240,23 +249,46 @@ class Fluid:
         rl = ancillary_value(anc["saturated_liquid_density"], T)
         rv = ancillary_value(anc["saturated_vapour_density"], T)
         near = T > Tc - NEAR_CRITICAL_SPAN_K
-        if np.any(near):
-            # the ancillaries lose their shape close to Tc: start from a solution NEAR_CRITICAL
-            # kelvin below it, scaled with the critical exponent β ≈ 0.325 of real fluids
-            # (Sengers, Levelt Sengers (1986), Annu. Rev. Phys. Chem. 37, 189)
-            T1 = np.array([Tc - NEAR_CRITICAL_SPAN_K])
-            s1 = saturation_newton(
+        far = ~near
+        out_l, out_v, out_p = np.empty_like(T), np.empty_like(T), np.empty_like(T)
+        if np.any(far):
+            s = saturation_newton(self.eos, T[far], rl[far], rv[far], self.eos.rho_r)
+            out_l[far], out_v[far], out_p[far] = s.rho_liquid, s.rho_vapor, s.P
+        for i in np.flatnonzero(near):
+            s = self._near_critical_saturation(float(T[i]))
+            out_l[i], out_v[i], out_p[i] = s.rho_liquid[0], s.rho_vapor[0], s.P[0]
+        return Saturation(T=T, P=out_p, rho_liquid=out_l, rho_vapor=out_v)
+
+    def _near_critical_saturation(self, T: float) -> Saturation:
+        """Saturation close to Tc by continuation: from NEAR_CRITICAL_SPAN_K below Tc, steps
+        that shrink the distance to Tc threefold, each started from the last solution scaled
+        with the critical exponent β ≈ 0.325 of real fluids (Sengers, Levelt Sengers (1986),
+        Annu. Rev. Phys. Chem. 37, 189), so every start lies outside the spinodals."""
+        Tc, _, rhoc = self.model_critical
+        anc = self.eos.ancillaries
+        dT = NEAR_CRITICAL_SPAN_K
+        T1 = np.array([Tc - dT])
+        s = saturation_newton(
+            self.eos,
+            T1,
+            ancillary_value(anc["saturated_liquid_density"], T1),
+            ancillary_value(anc["saturated_vapour_density"], T1),
+            self.eos.rho_r,
+        )
+        target = Tc - T
+        while dT > target:
+            new = max(dT / 3.0, target)
+            x = (new / dT) ** 0.325
+            Tn = np.array([Tc - new])
+            s = saturation_newton(
                 self.eos,
-                T1,
-                ancillary_value(anc["saturated_liquid_density"], T1),
-                ancillary_value(anc["saturated_vapour_density"], T1),
+                Tn,
+                rhoc + (s.rho_liquid - rhoc) * x,
+                rhoc + (s.rho_vapor - rhoc) * x,
                 self.eos.rho_r,
             )
-            rhoc = self.model_critical[2]
-            x = ((Tc - T[near]) / NEAR_CRITICAL_SPAN_K) ** 0.325
-            rl[near] = rhoc + (s1.rho_liquid[0] - rhoc) * x
-            rv[near] = rhoc + (s1.rho_vapor[0] - rhoc) * x
-        return saturation_newton(self.eos, T, rl, rv, self.eos.rho_r)
+            dT = new
+        return s
 
     def saturation(self, T: FloatArray) -> SaturationState:
         """Saturation pressure [Pa] and saturated densities [kg/m³] at T [K] below Tc."""

@@ -75,6 +75,10 @@ def saturation_newton(
         dv = np.where(done, dv, dv + scale * step_v)
         done = done | tiny
     ok = done & np.isfinite(dl) & np.isfinite(dv) & (dl > dv * (1 + 1e-12))
+    # a pair that meets the conditions but sits on an unstable branch (∂P/∂ρ < 0, between the
+    # spinodals) is not a saturation state: refuse it rather than return it
+    rl_, rv_ = model.alphar(T, dl * rho_r), model.alphar(T, dv * rho_r)
+    ok &= (1.0 + 2.0 * rl_.a01 + rl_.a02 > 0) & (1.0 + 2.0 * rv_.a01 + rv_.a02 > 0)
     if not np.all(ok):
         bad = np.asarray(T)[~ok].ravel()[0]
         raise ConvergenceError(f"{model.info.name}: saturation did not converge at {bad:.6g} K")
@@ -131,7 +135,7 @@ def density_bracketed(
         d = model.alphar(T, x)
         f = x * R * T * (1.0 + d.a01) - P
         df = R * T * (1.0 + 2.0 * d.a01 + d.a02)
-        done = np.abs(f) <= 1e-12 * P
+        done = done | (np.abs(f) <= 1e-12 * P)
         if np.all(done):
             break
         lo = np.where(f < 0, x, lo)
@@ -153,3 +157,33 @@ def density_bracketed(
 
 def _pressure(model: HelmholtzModel, T: FloatArray, rho: FloatArray) -> FloatArray:
     return rho * model.R * T * (1.0 + model.alphar(T, rho).a01)
+
+
+def loop_closure(
+    model: HelmholtzModel, Tc_listed: float, rhoc: float
+) -> tuple[float, float, float]:
+    """The equation's own critical point, where its two-phase loop closes [K, Pa, mol/m³].
+
+    For a pseudo-pure fluid (air) the listed critical point is the mixture's, and the pure-fluid
+    equation's unstable region (∂P/∂ρ < 0 somewhere on the isotherm) ends at a lower temperature.
+    Found by bisection on the sign of the isotherm's smallest slope near ρc.
+    """
+    rho = np.linspace(0.5 * rhoc, 1.6 * rhoc, 400)
+
+    def slope(T: float) -> tuple[float, float]:
+        d = model.alphar(np.full_like(rho, T), rho)
+        s = 1.0 + 2.0 * d.a01 + d.a02
+        i = int(np.argmin(s))
+        return float(s[i]), float(rho[i])
+
+    lo, hi = Tc_listed - 10.0, Tc_listed + 1.0
+    if slope(hi)[0] < 0 or slope(lo)[0] > 0:
+        return Tc_listed, float(_pressure(model, np.array(Tc_listed), np.array(rhoc))), rhoc
+    for _ in range(60):
+        mid = 0.5 * (lo + hi)
+        if slope(mid)[0] < 0:
+            lo = mid
+        else:
+            hi = mid
+    rho_c = slope(hi)[1]
+    return hi, float(_pressure(model, np.array(hi), np.array(rho_c))), rho_c
