@@ -77,7 +77,9 @@ def check(
     ] = False,
     width: Annotated[
         int | None,
-        typer.Option("--width", help="Report width in characters (default: the terminal's)."),
+        typer.Option(
+            "--width", min=40, help="Report width in characters (default: the terminal's)."
+        ),
     ] = None,
 ) -> None:
     """Check every vessel of a scenario and print the report.
@@ -180,7 +182,9 @@ def stop_table_command(
     step: Annotated[str, typer.Option("--step", help="Temperature step.")] = "5 K",
     json_out: Annotated[bool, typer.Option("--json", help="JSON instead of the table.")] = False,
     units: Annotated[Units, typer.Option("--units", help="Display units.")] = Units.metric,
-    width: Annotated[int | None, typer.Option("--width", help="Width in characters.")] = None,
+    width: Annotated[
+        int | None, typer.Option("--width", min=40, help="Width in characters.")
+    ] = None,
 ) -> None:
     """Print the pressure to stop a fill at, by gas temperature, for each vessel's planned charge.
 
@@ -203,6 +207,8 @@ def stop_table_command(
         dT = _option(u.parse_temperature_difference, step, "--step")
         if not (hi > lo and dT > 0):
             raise InputError(f"--from '{start}' must be below --to '{stop}' and --step positive")
+        if (hi - lo) / dT > 400:
+            raise InputError(f"--step '{step}' gives more than 400 rows; choose a larger step")
         temps = np.arange(lo, hi + 1e-9, dT)
         tables = [stop_table(v, sc.reference_temperature_K, temps) for v in _pick(sc, vessel)]
     except InputError as exc:
@@ -214,6 +220,10 @@ def stop_table_command(
         typer.echo(planning_json(tables))
     else:
         render_stop_tables(tables, _console(width), units.value, sc.atmospheric_pressure_Pa)
+    over = any(
+        t.max_safe_charge_kg is None or t.target_charge_kg > t.max_safe_charge_kg for t in tables
+    )
+    raise typer.Exit(EXIT_FINDINGS if over else EXIT_PASS)
 
 
 @app.command("reading")
@@ -252,7 +262,8 @@ def reading_command(
         T = _option(u.parse_temperature, temperature, "--temperature")
         r = read_gauge(v, sc.reference_temperature_K, P, T)
     except InputError as exc:
-        _refuse(str(exc))
+        msg = str(exc)
+        _refuse(msg if msg.startswith(file.name) else f"{file.name}: {msg}")
     except FillcheckError as exc:
         typer.echo(f"fillcheck: could not read the gauge: {exc}", err=True)
         raise typer.Exit(EXIT_FINDINGS) from None
@@ -260,6 +271,8 @@ def reading_command(
         typer.echo(planning_json(r))
     else:
         render_reading(r, _console(None), units.value, sc.atmospheric_pressure_Pa)
+    over = r.fraction_of_max_safe is None or r.fraction_of_max_safe > 1.0
+    raise typer.Exit(EXIT_FINDINGS if over else EXIT_PASS)
 
 
 def _option(parse: object, text: str, name: str) -> float:

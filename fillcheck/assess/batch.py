@@ -178,9 +178,14 @@ def _assess_group(
         frac[has_vs] = _liquid_fraction(f, vs_T[has_vs], rho[has_vs])
     safe, governing = largest_safe_densities(f, vs, T_ref)
     safe_fill_P = np.full(n, np.nan)
+    by_weight = np.zeros(n, dtype=bool)
     ok = np.isfinite(safe) & has_fill_T
     if np.any(ok):
-        safe_fill_P[ok] = vessel_path(f, T_fill[ok], safe[ok]).P
+        st = vessel_path(f, T_fill[ok], safe[ok])
+        liquid_at_fill = np.isin(st.phase, ("two-phase", "liquid"))
+        # with liquid in the vessel the pressure does not measure the charge: no stop pressure
+        safe_fill_P[ok] = np.where(liquid_at_fill, np.nan, st.P)
+        by_weight[ok] = liquid_at_fill
     Tc = f.model_critical[0]
     sat_curve = _saturation_curve(f, TT)
     results = []
@@ -229,6 +234,7 @@ def _assess_group(
             if not np.isfinite(safe[j])
             else float(safe[j] * M * v.water_capacity_m3),
             max_safe_fill_pressure_Pa=_num(safe_fill_P[j]),
+            fill_by_weight=bool(by_weight[j]),
             governing_limit=governing[j],
             entered=v.entered,
             limits_checked=[],

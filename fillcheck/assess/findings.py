@@ -90,7 +90,7 @@ def vessel_findings(
             )
     if lim.min_vapour_space is not None and lim.vapour_space_temperature_K is not None:
         Tv = lim.vapour_space_temperature_K
-        checked.append(f"vapour space at least {lim.min_vapour_space:.0%} at {t(Tv)}")
+        checked.append(f"vapour space at least {_pct(lim.min_vapour_space)} at {t(Tv)}")
         liquid = a.liquid_fraction_at_vapour_space_T or 0.0
         allowed = 1.0 - lim.min_vapour_space
         me = f.model_error
@@ -98,7 +98,7 @@ def vessel_findings(
         within = err is not None and 0.0 < liquid < 1.0 and abs(allowed / liquid - 1.0) < err
         said = (
             f"at {t(Tv)} liquid fills {liquid:.1%} of the vessel, leaving "
-            f"{max(0.0, 1 - liquid):.1%} vapour space; at least {lim.min_vapour_space:.0%} "
+            f"{max(0.0, 1 - liquid):.1%} vapour space; at least {_pct(lim.min_vapour_space)} "
             "is required"
         )
         if within:
@@ -317,6 +317,11 @@ def _rule_findings(
                 )
             )
     return out
+
+
+def _pct(x: float) -> str:
+    """A fraction as a percentage with the digits the user gave (5 %, 4.6 %, 12.25 %)."""
+    return f"{100.0 * x:.4g} %"
 
 
 def _span(dp: float, system: units.UnitSystem) -> str:

@@ -18,6 +18,9 @@ from fillcheck.errors import InputError
 from fillcheck.scenario.resolve import VesselInput
 from fillcheck.thermo.vessel import vessel_path
 
+READING_T_UNCERTAINTY_K = 2.0
+"""How far the gas temperature of a reading may be off (thermometer, gradients) [K]."""
+
 
 @dataclass(frozen=True)
 class StopRow:
@@ -36,6 +39,8 @@ class StopTable:
     vessel_id: str
     gas: str
     model: str
+    model_name: str
+    model_source: str
     target_density_kg_m3: float
     target_charge_kg: float
     settled_pressure_Pa: float
@@ -62,6 +67,8 @@ def stop_table(v: VesselInput, T_ref: float, temperatures_K: np.ndarray) -> Stop
         vessel_id=v.id,
         gas=f.name,
         model=f.model,
+        model_name=f.model_name,
+        model_source=_source(f),
         target_density_kg_m3=rho * M,
         target_charge_kg=rho * M * v.water_capacity_m3,
         settled_pressure_Pa=float(vessel_path(f, np.array([T_ref]), rho).P[0]),
@@ -79,6 +86,8 @@ class Reading:
     vessel_id: str
     gas: str
     model: str
+    model_name: str
+    model_source: str
     measured_pressure_Pa: float
     gas_temperature_K: float
     phase: str
@@ -87,6 +96,16 @@ class Reading:
     reference_temperature_K: float
     fraction_of_target: float
     fraction_of_max_safe: float | None
+
+
+def _source(f) -> str:
+    """The model's publications, and a warning where no error is known for it."""
+    refs = "; ".join(f.references)
+    if f.data.user_defined:
+        return refs + " — REVIEW: the gas is defined by the user; its numbers rest on user data"
+    if f.model_error is None:
+        return refs + " — REVIEW: this model's error is not known for this gas"
+    return refs
 
 
 def read_gauge(v: VesselInput, T_ref: float, P_Pa: float, T_K: float) -> Reading:
@@ -98,13 +117,24 @@ def read_gauge(v: VesselInput, T_ref: float, P_Pa: float, T_K: float) -> Reading
     f = v.fluid
     rho = float(f.density_molar(np.array([T_K]), np.array([P_Pa]))[0])
     Tc = f.model_critical[0]
-    if T_K < Tc:
-        sat = f.saturation_molar(np.array([T_K]))
-        if abs(P_Pa / float(sat.P[0]) - 1.0) < 0.02:
+    if T_K < f.T_min_saturation:
+        raise InputError(
+            f"vessel '{v.id}': a gas temperature of {T_K - 273.15:.1f} °C is below the triple "
+            f"point of {f.name}; check the thermometer reading"
+        )
+    if T_K - READING_T_UNCERTAINTY_K < Tc:
+        Ts = np.clip(
+            np.array([T_K - READING_T_UNCERTAINTY_K, T_K + READING_T_UNCERTAINTY_K]),
+            f.T_min_saturation,
+            Tc - 1e-3,
+        )
+        lo, hi = f.saturation_molar(Ts).P
+        if 0.95 * lo <= P_Pa <= 1.05 * hi:
             raise InputError(
-                f"vessel '{v.id}': the reading is within 2 % of the vapour pressure of {f.name} "
-                "at that temperature, so the vessel holds liquid and its pressure says nothing "
-                "about the charge; weigh it"
+                f"vessel '{v.id}': the reading lies within the vapour pressure of {f.name} for "
+                f"a gas temperature within {READING_T_UNCERTAINTY_K:.0f} K of the one given "
+                "(and 5 % of gauge error), so the vessel may hold liquid and its pressure does "
+                "not tell the charge; weigh it"
             )
     st = vessel_path(f, np.array([T_K]), rho)
     settled = float(vessel_path(f, np.array([T_ref]), rho).P[0])
@@ -115,6 +145,8 @@ def read_gauge(v: VesselInput, T_ref: float, P_Pa: float, T_K: float) -> Reading
         vessel_id=v.id,
         gas=f.name,
         model=f.model,
+        model_name=f.model_name,
+        model_source=_source(f),
         measured_pressure_Pa=P_Pa,
         gas_temperature_K=T_K,
         phase=str(st.phase[0]),

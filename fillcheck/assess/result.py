@@ -66,6 +66,9 @@ class VesselAssessment:
     entered: dict[str, str]
     limits_checked: list[str]
     hazards: tuple[str, ...]
+    fill_by_weight: bool = False
+    """Whether the largest safe charge holds liquid at the fill temperature (so its stop
+    pressure is withheld: a liquefied gas is filled by weight)."""
     liquid_fraction_at_vapour_space_T: float | None = None
     """Fraction of the vessel taken by liquid at the vapour-space temperature [-]."""
     limit_reached_K: dict[str, float | None] = field(default_factory=dict)

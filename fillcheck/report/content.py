@@ -108,7 +108,10 @@ def result_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
     rows.append(("relief set pressure reached at", t(v.relief_reached_at_K)))
     if v.max_safe_charge_kg is not None:
         rows.append(
-            ("largest safe charge", f"{fmt.m(v.max_safe_charge_kg)} ({v.governing_limit} governs)")
+            (
+                "largest safe charge",
+                f"{fmt.m(_floor(v.max_safe_charge_kg))} ({v.governing_limit} governs)",
+            )
         )
     return rows
 
@@ -125,8 +128,14 @@ def fill_plan(v: VesselAssessment, fmt: Formatter) -> str:
     if v.max_safe_charge_kg is None:
         out.append("No charge keeps every limit entered: do not fill this vessel.")
     else:
-        s = f"Fill plan: up to {fmt.m(v.max_safe_charge_kg)} per vessel"
-        if v.max_safe_fill_pressure_Pa is not None:
+        s = "The largest charge keeping every limit: " if out else "Fill plan: "
+        s += f"up to {fmt.m(_floor(v.max_safe_charge_kg))} per vessel"
+        if v.fill_by_weight:
+            s += (
+                ", filled by weight: at this charge the vessel holds liquid at the fill "
+                "temperature, so its pressure does not measure the charge"
+            )
+        elif v.max_safe_fill_pressure_Pa is not None:
             s += (
                 f"; stop the fill at {p(v.max_safe_fill_pressure_Pa)} while the gas is at "
                 f"{t(v.fill_temperature_K)}"
@@ -135,15 +144,28 @@ def fill_plan(v: VesselAssessment, fmt: Formatter) -> str:
     return " ".join(out)
 
 
+def _floor(kg: float) -> float:
+    """A charge rounded down to the 10 g a report shows, so a printed plan never exceeds it."""
+    import math
+
+    return math.floor(kg * 100.0) / 100.0
+
+
 def sorted_findings(v: VesselAssessment) -> list[Finding]:
     """Findings, most severe first."""
     return sorted(v.findings, key=lambda f: SEVERITY_ORDER[f.severity])
 
 
 def verdict_sentence(v: VesselAssessment) -> str:
-    """The verdict, always with the limits it covers."""
-    word = {"pass": "passes", "fail": "fails", "review": "needs review against"}[v.verdict]
-    return f"Verdict: {v.id} {word} the limits checked: {'; '.join(v.limits_checked)}."
+    """The verdict, always with the limits it covers, and for a fail what broke."""
+    checked = "; ".join(v.limits_checked)
+    if v.verdict == "fail":
+        broken = ", ".join(f.code for f in v.findings if f.severity == "fail")
+        return f"Verdict: {v.id} FAILS ({broken}). Limits checked: {checked}."
+    if v.verdict == "review":
+        why = ", ".join(f.code for f in v.findings if f.severity == "review")
+        return f"Verdict: {v.id} NEEDS REVIEW ({why}). Limits checked: {checked}."
+    return f"Verdict: {v.id} passes the limits checked: {checked}."
 
 
 DETAIL_LIMIT = 25

@@ -13,7 +13,12 @@ from rich.text import Text
 
 from fillcheck import __version__, units
 from fillcheck.assess.planning import Reading, StopTable
-from fillcheck.report.content import CLOSING_CAUTION
+
+PLANNING_CAUTION = (
+    "fillcheck computes what the gas does; it does not inspect the vessel. These figures are only "
+    "as good as the pressure gauge, the thermometer and the scale; the cylinder's markings, local "
+    "codes and a licensed inspector decide. Read SAFETY.md before filling to them."
+)
 
 
 def render_stop_tables(
@@ -45,25 +50,45 @@ def render_stop_tables(
                 f"Largest safe charge: {units.format_mass(st.max_safe_charge_kg, system)} "
                 f"({st.governing_limit} governs)."
             )
+            if st.target_charge_kg > st.max_safe_charge_kg:
+                console.print(
+                    Text(
+                        "The planned charge is ABOVE the largest safe charge: do not fill to this "
+                        "plan; use the right-hand column.",
+                        style="bold red",
+                    )
+                )
+        else:
+            console.print(
+                Text(
+                    "No charge keeps every limit entered: do not fill this vessel.",
+                    style="bold red",
+                )
+            )
         table = Table(show_edge=True)
         table.add_column("gas temperature", justify="right")
         table.add_column("stop the fill at", justify="right")
         table.add_column("phase")
         table.add_column("never above (largest safe charge)", justify="right")
         for r in st.rows:
+            weigh = r.phase in ("two-phase", "liquid")
             table.add_row(
-                t(r.gas_temperature_K), p(r.stop_pressure_Pa), r.phase, p(r.safe_stop_pressure_Pa)
+                t(r.gas_temperature_K),
+                "weigh the fill" if weigh else p(r.stop_pressure_Pa),
+                r.phase,
+                "weigh the fill" if weigh else p(r.safe_stop_pressure_Pa),
             )
         console.print(table)
+        console.print(f"Model: {st.model_name} ({st.model}); {st.model_source}")
         if any(r.phase in ("two-phase", "liquid") for r in st.rows):
             console.print(
                 Text(
-                    "Liquid is present at some of these temperatures: fill this gas by weight; the "
-                    "pressure column does not measure the charge there.",
+                    "Liquid is present at some of these temperatures: fill this gas by weight "
+                    "there; its pressure is the vapour pressure and does not measure the charge.",
                     style="bold",
                 )
             )
-    console.print(Text(CLOSING_CAUTION, style="italic"))
+    console.print(Text(PLANNING_CAUTION, style="italic"))
 
 
 def render_reading(r: Reading, console: Console, system: units.UnitSystem, atm: float) -> None:
@@ -85,7 +110,8 @@ def render_reading(r: Reading, console: Console, system: units.UnitSystem, atm: 
         console.print(
             Text("Above the largest safe charge: do not store it this full.", style="bold red")
         )
-    console.print(Text(CLOSING_CAUTION, style="italic"))
+    console.print(f"Model: {r.model_name} ({r.model}); {r.model_source}")
+    console.print(Text(PLANNING_CAUTION, style="italic"))
 
 
 def planning_json(obj: list[StopTable] | Reading) -> str:

@@ -16,6 +16,7 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
+import numpy as np
 from pydantic import ValidationError
 
 from fillcheck import units
@@ -125,12 +126,28 @@ def scenario_from_dict(
     where = _Where(name, columns=columns)
     T_ref = where.run("reference_temperature", units.parse_temperature, spec.reference_temperature)
     P_atm = where.run("atmospheric_pressure", units.parse_pressure, spec.atmospheric_pressure)
+    if units.parse_pressure(spec.atmospheric_pressure, 1.0) != P_atm:
+        raise where.fail(
+            "atmospheric_pressure",
+            f"'{spec.atmospheric_pressure}' is a gauge pressure; the atmosphere is given "
+            'absolute, e.g. "101.3 kPa absolute" or "1.013 bara"',
+        )
+    if not 50e3 <= P_atm <= 110e3:
+        raise where.fail(
+            "atmospheric_pressure",
+            f"'{spec.atmospheric_pressure}' is not an atmospheric pressure; give the local "
+            "value, between 50 and 110 kPa absolute",
+        )
     user_gases = _user_gases(spec.gas, where)
     seen: set[str] = set()
     vessels = []
     fluids: dict[tuple[str, bool, str | None], Fluid] = {}  # one Fluid per gas and model
     for i, v in enumerate(spec.vessel):
         vid = str(v.id)
+        if not vid.strip():
+            raise where.vessel(vid, i + 2 if columns is not None else None).fail(
+                "id", 'is empty; give every vessel an id, e.g. id = "AR-50-001"'
+            )
         w = where.vessel(vid, i + 2 if columns is not None else None)
         if vid in seen:
             raise w.fail("id", "the id is used twice; give every vessel its own id")
@@ -333,6 +350,9 @@ def _vessel(
             f"is required with fill.{kind}: the gas temperature "
             'when the pressure is read, e.g. temperature = "15 degC"',
         )
+    if kind.endswith("pressure"):
+        T_read = T_fill if kind == "pressure" else None
+        _refuse_liquefied_pressure_fill(fluid, kind, value, T_read, text, where)
     entered["storage.max_temperature"] = v.storage.max_temperature
     T_max = _temperature(v.storage.max_temperature, "storage.max_temperature", where, fluid)
     T_min = None
@@ -363,6 +383,29 @@ def _vessel(
         P_atm,
         rules,
     )
+
+
+LIQUEFIED_BAND = 0.98
+"""A pressure fill within 2 % of the vapour pressure (or above it) is refused: there the
+pressure does not fix the charge of a liquefied gas."""
+
+
+def _refuse_liquefied_pressure_fill(
+    fluid: Fluid, kind: str, P: float, T: float | None, text: str, where: _Where
+) -> None:
+    """Refuse a fill by pressure where the gas would be liquid at that pressure."""
+    Tc = fluid.model_critical[0]
+    if T is None or T >= Tc:
+        return
+    Psat = float(fluid.saturation_molar(np.array([T])).P[0])
+    if P >= LIQUEFIED_BAND * Psat:
+        raise where.fail(
+            "fill." + kind,
+            f"'{text}' is at or above {LIQUEFIED_BAND:.0%} of the vapour pressure of "
+            f"{fluid.name} at the fill temperature ({Psat / 1e5:.2f} bara): there the pressure "
+            "does not tell the charge of a liquefied gas; give fill.mass (weigh the fill) or "
+            "fill.filling_ratio instead",
+        )
 
 
 RULE_CLASSES = {
