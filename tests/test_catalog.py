@@ -36,12 +36,41 @@ from fillcheck.fluids import (
 R = 8.314462618  # J/(mol K)
 
 REQUIRED = [
-    "nitrogen", "oxygen", "argon", "helium", "hydrogen", "neon", "krypton", "xenon", "air",
-    "carbon monoxide", "methane", "carbon dioxide", "nitrous oxide", "ethane", "ethylene",
-    "propane", "propylene", "n-butane", "isobutane", "sulfur hexafluoride", "ammonia", "chlorine",
-    "sulfur dioxide", "hydrogen sulfide", "hydrogen chloride", "dimethyl ether",
-    "nitrogen trifluoride", "tetrafluoromethane", "R134a", "R32", "R125", "R1234yf", "R152a",
-    "R22", "R23",
+    "nitrogen",
+    "oxygen",
+    "argon",
+    "helium",
+    "hydrogen",
+    "neon",
+    "krypton",
+    "xenon",
+    "air",
+    "carbon monoxide",
+    "methane",
+    "carbon dioxide",
+    "nitrous oxide",
+    "ethane",
+    "ethylene",
+    "propane",
+    "propylene",
+    "n-butane",
+    "isobutane",
+    "sulfur hexafluoride",
+    "ammonia",
+    "chlorine",
+    "sulfur dioxide",
+    "hydrogen sulfide",
+    "hydrogen chloride",
+    "dimethyl ether",
+    "nitrogen trifluoride",
+    "tetrafluoromethane",
+    "R134a",
+    "R32",
+    "R125",
+    "R1234yf",
+    "R152a",
+    "R22",
+    "R23",
 ]
 FLUIDS = all_fluids()
 IDS = [f.name for f in FLUIDS]
@@ -64,6 +93,7 @@ def _rel(a: float, b: float) -> float:
 
 # --- data guard ------------------------------------------------------------------------------
 
+
 def test_catalog_holds_the_required_gases_in_order() -> None:
     assert len(FLUIDS) >= 35
     assert available_fluids()[: len(REQUIRED)] == REQUIRED
@@ -83,15 +113,23 @@ def test_every_identifier_is_unique_across_names_formulas_aliases_and_cas() -> N
 def test_fields_present_finite_and_physical(f: FluidData) -> None:
     assert isinstance(f, FluidData) and not f.user_defined
     assert f.name and f.formula and f.cas
-    for value in (f.molar_mass_kg_mol, f.critical_temperature_K, f.critical_pressure_Pa,
-                  f.critical_density_kg_m3, f.triple_point_temperature_K,
-                  f.normal_boiling_point_K):
+    for value in (
+        f.molar_mass_kg_mol,
+        f.critical_temperature_K,
+        f.critical_pressure_Pa,
+        f.critical_density_kg_m3,
+        f.triple_point_temperature_K,
+        f.normal_boiling_point_K,
+    ):
         assert math.isfinite(value) and value > 0.0
     assert math.isfinite(f.acentric_factor) and -0.5 < f.acentric_factor < 1.5
     assert 0.001 < f.molar_mass_kg_mol < 0.2
     # the critical compressibility of real gases lies between about 0.2 and 0.32
-    Zc = f.critical_pressure_Pa * f.molar_mass_kg_mol / (
-        f.critical_density_kg_m3 * R * f.critical_temperature_K)
+    Zc = (
+        f.critical_pressure_Pa
+        * f.molar_mass_kg_mol
+        / (f.critical_density_kg_m3 * R * f.critical_temperature_K)
+    )
     assert 0.2 < Zc < 0.32, Zc
 
 
@@ -129,7 +167,8 @@ def test_characteristic_temperatures_are_ordered(f: FluidData) -> None:
 def test_hazard_words(f: FluidData) -> None:
     assert f.hazards <= HAZARDS
     assert f.sources["hazards"].startswith(
-        "GHS classification of the pure gas, common practice (from memory)")
+        "GHS classification of the pure gas, common practice (from memory)"
+    )
 
 
 def test_hazards_of_a_few_gases() -> None:
@@ -139,8 +178,17 @@ def test_hazards_of_a_few_gases() -> None:
     assert {"flammable", "toxic", "corrosive"} <= lookup("ammonia").hazards
     assert {"oxidizing", "toxic", "corrosive"} <= lookup("chlorine").hazards
     assert {"oxidizing", "toxic"} <= lookup("nitrogen trifluoride").hazards
-    for name in ("hydrogen", "methane", "propane", "R32", "R152a", "R1234yf", "dimethyl ether",
-                 "hydrogen sulfide", "carbon monoxide"):
+    for name in (
+        "hydrogen",
+        "methane",
+        "propane",
+        "R32",
+        "R152a",
+        "R1234yf",
+        "dimethyl ether",
+        "hydrogen sulfide",
+        "carbon monoxide",
+    ):
         assert "flammable" in lookup(name).hazards, name
     for name in ("nitrous oxide", "oxygen", "chlorine", "nitrogen trifluoride"):
         assert "asphyxiant" not in lookup(name).hazards, name
@@ -198,15 +246,19 @@ AIR_X = {"7727-37-9": 0.7812, "7782-44-7": 0.2096, "7440-37-1": 0.0092}
 
 def _chem_molar_mass(f: FluidData) -> float:
     if f.name == "air":
-        return sum(x * elements.molecular_weight(
-            elements.simple_formula_parser(lookup(cas).formula)) for cas, x in AIR_X.items()) / 1e3
+        return (
+            sum(
+                x * elements.molecular_weight(elements.simple_formula_parser(lookup(cas).formula))
+                for cas, x in AIR_X.items()
+            )
+            / 1e3
+        )
     return elements.molecular_weight(elements.simple_formula_parser(_hill(f))) / 1e3
 
 
 def _hill(f: FluidData) -> str:
     """The formula in a form chemicals parses (the catalog's is written for people)."""
-    return {"n-C4H10": "C4H10", "i-C4H10": "C4H10", "CH2=CFCF3": "C3H2F4"}.get(
-        f.formula, f.formula)
+    return {"n-C4H10": "C4H10", "i-C4H10": "C4H10", "CH2=CFCF3": "C3H2F4"}.get(f.formula, f.formula)
 
 
 @pytest.mark.parametrize("f", FLUIDS, ids=IDS)
@@ -239,11 +291,14 @@ OLDER_TABLE_EXCEPTIONS = {
 _ESTIMATES = {"HEOS", "JOBACK", "WILSON_JASPERSON", "FEDORS", "ACENTRIC_DEFINITION"}
 
 
-@pytest.mark.parametrize("f", [f for f in FLUIDS if f.name != "air"],
-                         ids=[n for n in IDS if n != "air"])
+@pytest.mark.parametrize(
+    "f", [f for f in FLUIDS if f.name != "air"], ids=[n for n in IDS if n != "air"]
+)
 def test_against_an_older_independent_table(f: FluidData) -> None:
-    checks = [("Tc", critical.Tc, critical.Tc_methods, f.critical_temperature_K, TOL_TC),
-              ("Pc", critical.Pc, critical.Pc_methods, f.critical_pressure_Pa, TOL_PC)]
+    checks = [
+        ("Tc", critical.Tc, critical.Tc_methods, f.critical_temperature_K, TOL_TC),
+        ("Pc", critical.Pc, critical.Pc_methods, f.critical_pressure_Pa, TOL_PC),
+    ]
     for what, fn, methods, ours, tol in checks:
         method = next(m for m in methods(f.cas) if m not in _ESTIMATES)
         tol = OLDER_TABLE_EXCEPTIONS.get((f.name, what), tol)
@@ -261,19 +316,26 @@ def test_nitrogen_trifluoride_is_transcribed_from_chemicals() -> None:
     assert f.coolprop_name is None
     M = elements.molecular_weight(elements.simple_formula_parser("NF3")) / 1e3
     expected = {
-        "critical_temperature_K": critical.Tc(f.cas), "critical_pressure_Pa": critical.Pc(f.cas),
-        "critical_density_kg_m3": M / critical.Vc(f.cas), "acentric_factor": acentric.omega(f.cas),
-        "molar_mass_kg_mol": M, "normal_boiling_point_K": phase_change.Tb(f.cas),
+        "critical_temperature_K": critical.Tc(f.cas),
+        "critical_pressure_Pa": critical.Pc(f.cas),
+        "critical_density_kg_m3": M / critical.Vc(f.cas),
+        "acentric_factor": acentric.omega(f.cas),
+        "molar_mass_kg_mol": M,
+        "normal_boiling_point_K": phase_change.Tb(f.cas),
         "triple_point_temperature_K": triple.Tt(f.cas),
     }
     for key, value in expected.items():
         assert _rel(getattr(f, key), value) < 1e-9, key
-    for key, method_list in (("critical", critical.Tc_methods), ("acentric_factor",
-                             acentric.omega_methods), ("triple_point", triple.Tt_methods)):
+    for key, method_list in (
+        ("critical", critical.Tc_methods),
+        ("acentric_factor", acentric.omega_methods),
+        ("triple_point", triple.Tt_methods),
+    ):
         assert f"method '{method_list(f.cas)[0]}'" in f.sources[key]
 
 
 # --- against CoolProp (the transcription check) ----------------------------------------------
+
 
 @pytest.mark.parametrize("f", COOLPROP, ids=[f.name for f in COOLPROP])
 def test_transcribed_from_coolprop(f: FluidData) -> None:
@@ -346,8 +408,9 @@ def test_shomate_coefficients_transcribed(f: FluidData) -> None:
     np.testing.assert_allclose(np.array(cp.coefficients) * R, low[2:], rtol=1e-9)
     assert (cp.T_min_K, cp.T_max_K) == (low[0], low[1])
     T = np.linspace(low[0], low[1], 9)
-    np.testing.assert_allclose(R * cp.cp0_over_R(T), [hc.Shomate(t, *low[2:]) for t in T],
-                               rtol=1e-9)
+    np.testing.assert_allclose(
+        R * cp.cp0_over_R(T), [hc.Shomate(t, *low[2:]) for t in T], rtol=1e-9
+    )
 
 
 def test_sulfur_dioxide_poling_entry_is_rejected_for_good_reason() -> None:
@@ -411,21 +474,49 @@ def test_cp_functions_take_arrays_and_refuse_bad_temperatures() -> None:
 
 # --- lookup ----------------------------------------------------------------------------------
 
-@pytest.mark.parametrize("text", ["carbon dioxide", "CO2", "co2", "R744", "r-744", "124-38-9",
-                                  "  Carbon Dioxide  ", "CARBON-DIOXIDE", "carbon_dioxide",
-                                  "CarbonDioxide", "carbonic acid gas"])
+
+@pytest.mark.parametrize(
+    "text",
+    [
+        "carbon dioxide",
+        "CO2",
+        "co2",
+        "R744",
+        "r-744",
+        "124-38-9",
+        "  Carbon Dioxide  ",
+        "CARBON-DIOXIDE",
+        "carbon_dioxide",
+        "CarbonDioxide",
+        "carbonic acid gas",
+    ],
+)
 def test_lookup_carbon_dioxide(text: str) -> None:
     assert lookup(text).name == "carbon dioxide"
 
 
-@pytest.mark.parametrize(("text", "name"), [
-    ("n_butane", "n-butane"), ("butane", "n-butane"), ("R600a", "isobutane"),
-    ("R-134a", "R134a"), ("HFC134a", "R134a"), ("r134A", "R134a"), ("co", "carbon monoxide"),
-    ("laughing gas", "nitrous oxide"), ("DME", "dimethyl ether"),
-    ("methyl ether", "dimethyl ether"), ("RE170", "dimethyl ether"), ("R729", "air"),
-    ("R14", "tetrafluoromethane"), ("Ar", "argon"), ("7440-37-1", "argon"),
-    ("nf3", "nitrogen trifluoride"), ("sulphur dioxide", "sulfur dioxide"),
-])
+@pytest.mark.parametrize(
+    ("text", "name"),
+    [
+        ("n_butane", "n-butane"),
+        ("butane", "n-butane"),
+        ("R600a", "isobutane"),
+        ("R-134a", "R134a"),
+        ("HFC134a", "R134a"),
+        ("r134A", "R134a"),
+        ("co", "carbon monoxide"),
+        ("laughing gas", "nitrous oxide"),
+        ("DME", "dimethyl ether"),
+        ("methyl ether", "dimethyl ether"),
+        ("RE170", "dimethyl ether"),
+        ("R729", "air"),
+        ("R14", "tetrafluoromethane"),
+        ("Ar", "argon"),
+        ("7440-37-1", "argon"),
+        ("nf3", "nitrogen trifluoride"),
+        ("sulphur dioxide", "sulfur dioxide"),
+    ],
+)
 def test_lookup_by_any_identifier(text: str, name: str) -> None:
     assert lookup(text).name == name
 
@@ -456,8 +547,10 @@ def test_unknown_gas_suggests_close_names() -> None:
 def test_unknown_gas_without_a_close_name() -> None:
     with pytest.raises(UnknownFluidError) as err:
         lookup("xyz")
-    assert str(err.value) == (f"unknown gas 'xyz'; fillcheck knows {len(FLUIDS)} gases: run "
-                              "fillcheck.available_fluids() to list them")
+    assert str(err.value) == (
+        f"unknown gas 'xyz'; fillcheck knows {len(FLUIDS)} gases: run "
+        "'fillcheck gases' to list them"
+    )
     for bad in ("", "   ", None, 44):
         with pytest.raises(UnknownFluidError):
             lookup(bad)  # type: ignore[arg-type]
@@ -466,9 +559,9 @@ def test_unknown_gas_without_a_close_name() -> None:
 
 # --- user-defined gases ----------------------------------------------------------------------
 
+
 def test_user_fluid_happy_path() -> None:
-    f = user_fluid("  my propane  ", 0.04409562, 369.89, 4.2512e6, 0.1521,
-                   hazards=["flammable"])
+    f = user_fluid("  my propane  ", 0.04409562, 369.89, 4.2512e6, 0.1521, hazards=["flammable"])
     assert f.user_defined and f.name == "my propane"
     assert f.ideal_gas_cp is None and f.coolprop_name is None
     assert f.hazards == {"flammable"}
@@ -486,37 +579,59 @@ def test_user_fluid_happy_path() -> None:
 
 
 def test_user_fluid_keeps_given_optional_values() -> None:
-    f = user_fluid("gas X", 0.05, 300.0, 4.0e6, 0.2, critical_density_kg_m3=400.0,
-                   triple_point_temperature_K=150.0, normal_boiling_point_K=200.0, hazards="toxic")
-    assert (f.critical_density_kg_m3, f.triple_point_temperature_K,
-            f.normal_boiling_point_K) == (400.0, 150.0, 200.0)
+    f = user_fluid(
+        "gas X",
+        0.05,
+        300.0,
+        4.0e6,
+        0.2,
+        critical_density_kg_m3=400.0,
+        triple_point_temperature_K=150.0,
+        normal_boiling_point_K=200.0,
+        hazards="toxic",
+    )
+    assert (f.critical_density_kg_m3, f.triple_point_temperature_K, f.normal_boiling_point_K) == (
+        400.0,
+        150.0,
+        200.0,
+    )
     assert f.hazards == {"toxic"}
-    assert set(f.sources.values()) == {"entered by the user",
-                                       "none: a user-defined gas has no ideal-gas heat capacity"}
+    assert set(f.sources.values()) == {
+        "entered by the user",
+        "none: a user-defined gas has no ideal-gas heat capacity",
+    }
 
 
-GOOD = {"name": "gas X", "molar_mass_kg_mol": 0.05, "critical_temperature_K": 300.0,
-        "critical_pressure_Pa": 4.0e6, "acentric_factor": 0.2}
+GOOD = {
+    "name": "gas X",
+    "molar_mass_kg_mol": 0.05,
+    "critical_temperature_K": 300.0,
+    "critical_pressure_Pa": 4.0e6,
+    "acentric_factor": 0.2,
+}
 
 
-@pytest.mark.parametrize(("change", "words"), [
-    ({"name": "   "}, "not empty"),
-    ({"name": "Argon"}, "already the catalog gas 'argon'"),
-    ({"name": "R-744"}, "already the catalog gas 'carbon dioxide'"),
-    ({"molar_mass_kg_mol": 44.0}, "molar mass"),
-    ({"molar_mass_kg_mol": 0.0}, "molar mass"),
-    ({"molar_mass_kg_mol": math.nan}, "molar mass"),
-    ({"critical_temperature_K": -1.0}, "critical temperature"),
-    ({"critical_pressure_Pa": 0.0}, "critical pressure"),
-    ({"critical_pressure_Pa": math.inf}, "critical pressure"),
-    ({"acentric_factor": 1.5}, "acentric factor"),
-    ({"acentric_factor": -0.6}, "acentric factor"),
-    ({"acentric_factor": True}, "acentric factor"),
-    ({"critical_density_kg_m3": -3.0}, "critical density"),
-    ({"triple_point_temperature_K": 310.0}, "triple-point temperature"),
-    ({"normal_boiling_point_K": 0.0}, "normal boiling point"),
-    ({"hazards": ["explosive"]}, "Unknown hazard"),
-])
+@pytest.mark.parametrize(
+    ("change", "words"),
+    [
+        ({"name": "   "}, "not empty"),
+        ({"name": "Argon"}, "already the catalog gas 'argon'"),
+        ({"name": "R-744"}, "already the catalog gas 'carbon dioxide'"),
+        ({"molar_mass_kg_mol": 44.0}, "molar mass"),
+        ({"molar_mass_kg_mol": 0.0}, "molar mass"),
+        ({"molar_mass_kg_mol": math.nan}, "molar mass"),
+        ({"critical_temperature_K": -1.0}, "critical temperature"),
+        ({"critical_pressure_Pa": 0.0}, "critical pressure"),
+        ({"critical_pressure_Pa": math.inf}, "critical pressure"),
+        ({"acentric_factor": 1.5}, "acentric factor"),
+        ({"acentric_factor": -0.6}, "acentric factor"),
+        ({"acentric_factor": True}, "acentric factor"),
+        ({"critical_density_kg_m3": -3.0}, "critical density"),
+        ({"triple_point_temperature_K": 310.0}, "triple-point temperature"),
+        ({"normal_boiling_point_K": 0.0}, "normal boiling point"),
+        ({"hazards": ["explosive"]}, "Unknown hazard"),
+    ],
+)
 def test_user_fluid_refusals(change: dict[str, object], words: str) -> None:
     args = {**GOOD, **change}
     with pytest.raises(InputError) as err:

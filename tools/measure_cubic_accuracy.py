@@ -247,9 +247,10 @@ def write_table(rows) -> None:
         lines.append(f"| {name} | " + " | ".join(f"{mean[k] * 100:.2f}" for k in kinds) + " |")
     lines += [
         "",
-        "The bold model (smallest largest error) is each gas's default until reference",
-        "equations of state are available; `fillcheck gases` lists the defaults. Nitrogen",
-        'trifluoride has no reference equation to measure against: its checks say "review".',
+        "Every gas but nitrogen trifluoride now defaults to its published reference equation of",
+        "state; the bold cubic is the one fillcheck orders first for a gas when a cubic is asked",
+        "for, and the cubics' order in `fillcheck gases`. Nitrogen trifluoride has no reference",
+        'equation to measure against: it uses Peng–Robinson, and its checks say "review".',
         "",
     ]
     (ROOT / "docs" / "accuracy.md").write_text("\n".join(lines), encoding="utf-8")

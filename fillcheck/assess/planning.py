@@ -115,13 +115,13 @@ def read_gauge(v: VesselInput, T_ref: float, P_Pa: float, T_K: float) -> Reading
     shows its vapour pressure whatever its charge.
     """
     f = v.fluid
-    rho = float(f.density_molar(np.array([T_K]), np.array([P_Pa]))[0])
-    Tc = f.model_critical[0]
     if T_K < f.T_min_saturation:
         raise InputError(
             f"vessel '{v.id}': a gas temperature of {T_K - 273.15:.1f} °C is below the triple "
             f"point of {f.name}; check the thermometer reading"
         )
+    rho = float(f.density_molar(np.array([T_K]), np.array([P_Pa]))[0])
+    Tc = f.model_critical[0]
     if T_K - READING_T_UNCERTAINTY_K < Tc:
         Ts = np.clip(
             np.array([T_K - READING_T_UNCERTAINTY_K, T_K + READING_T_UNCERTAINTY_K]),

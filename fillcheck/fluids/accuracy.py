@@ -2,8 +2,8 @@
 
 ``data/cubic_accuracy.json`` is written by ``tools/measure_cubic_accuracy.py``, which compares
 every cubic model of every catalog gas with the published reference equation of state of that
-gas (evaluated by CoolProp 8.0.0, a development-time reference that fillcheck itself never
-imports). For each gas it holds:
+gas, as fillcheck itself evaluates it (tests/test_reference_equations.py proves that evaluation
+against CoolProp 8.0.0). For each gas it holds:
 
 - the Péneloux volume shift c [m³/mol] of the translated Peng–Robinson model, chosen to minimise
   the largest relative density error over the cylinder box (below);
@@ -54,21 +54,16 @@ class GasAccuracy:
 
 
 REFERENCE_UNCERTAINTY = ModelError(
-    density=0.005,
-    pressure=0.005,
-    saturation_pressure=0.005,
-    table_density=0.005,
+    density=0.002,
+    pressure=0.002,
+    saturation_pressure=0.002,
+    table_density=0.002,
     pressure_dense=0.03,
-    saturated_liquid_density=0.005,
+    saturated_liquid_density=0.002,
 )
-"""Uncertainty fillcheck assumes for every reference equation of state [-].
-
-The publications state density uncertainties of 0.01–0.1 % for the wide-range reference
-equations (e.g. Span et al. 2000 for nitrogen, Span & Wagner 1996 for carbon dioxide) and up to
-about 0.2–0.5 % for the short industrial equations of Lemmon & Span (2006) (figures from memory).
-fillcheck takes the upper end, 0.5 %, for density, pressure at given density and saturation
-pressure; for a liquid-full vessel above 10 MPa, where the pressure moves some twenty times the
-density's relative change, 3 %."""
+"""Nominal uncertainty of a reference equation of state as a ModelError [-]; the checks use
+the state-dependent figure of assess.uncertainty (0.2 % in density, carried to the pressure by
+the isotherm's stiffness)."""
 
 
 @cache

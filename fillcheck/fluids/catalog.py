@@ -280,7 +280,7 @@ def lookup(identifier: str) -> FluidData:
     key = _normalize(identifier)
     if key in index:
         return index[key]
-    listing = f"fillcheck knows {len(fluids)} gases: run fillcheck.available_fluids() to list them"
+    listing = f"fillcheck knows {len(fluids)} gases: run 'fillcheck gases' to list them"
     if not key:
         raise UnknownFluidError(f"no gas named: the gas identifier is empty; {listing}")
     close = difflib.get_close_matches(key, list(index), n=12, cutoff=0.6)

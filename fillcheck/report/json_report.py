@@ -46,6 +46,13 @@ def vessel_dict(v: VesselAssessment) -> dict[str, Any]:
         "max_safe_charge_kg": v.max_safe_charge_kg,
         "max_safe_fill_pressure_Pa": v.max_safe_fill_pressure_Pa,
         "governing_limit": v.governing_limit,
+        "max_safe_fill_by_weight": v.fill_by_weight,
+        "limits": {
+            "allowable_pressure_Pa": v.allowable_pressure_Pa,
+            "relief_set_pressure_Pa": v.relief_set_pressure_Pa,
+            "margin_to_allowable": v.margin_to_allowable,
+            "liquid_fraction_at_vapour_space_temperature": v.liquid_fraction_at_vapour_space_T,
+        },
         "limits_checked": v.limits_checked,
         "findings": [
             {"code": f.code, "severity": f.severity, "message": f.message} for f in v.findings
