@@ -118,6 +118,8 @@ def largest_safe_densities(
     return np.where(bad, np.nan, rho), [None if b else nm for b, nm in zip(bad, names, strict=True)]
 
 
+MAX_UNCERTAINTY = 0.5
+"""Largest model uncertainty the planned charge is reduced by [-]."""
 SAFETY_CLEARANCE = 1e-3
 """Relative clearance kept below every pressure limit beyond the model's uncertainty [-], so that
 a plan followed to its printed (rounded) figures still passes."""
@@ -128,6 +130,9 @@ def _under(fluid: Fluid, T: np.ndarray, P: np.ndarray) -> np.ndarray:
     rho = fluid.density_molar(T, P)
     for _ in range(2):
         u = np.nan_to_num(pressure_uncertainty(fluid, T, rho, vessel_path(fluid, T, rho).phase))
+        # a cubic's error for a dense fluid can exceed 100 %: past MAX_UNCERTAINTY the plan is
+        # only an estimate, and the check says "review" for the margin in any case
+        u = np.clip(u, 0.0, MAX_UNCERTAINTY)
         rho = fluid.density_molar(T, P * (1.0 - u - SAFETY_CLEARANCE))
     return rho
 

@@ -337,8 +337,8 @@ def _vessel(
             raise where.fail(
                 "fill." + kind,
                 f"'{text}' in '{v.water_capacity}' is {rho:.0f} kg/m³, more {fluid.name} than "
-                f"the vessel can hold even as liquid (below {rho_max:.0f} kg/m³); check the "
-                "mass and the water capacity",
+                f"the vessel can hold even as liquid (the {fluid.model} model stops at "
+                f"{rho_max:.0f} kg/m³); check the mass and the water capacity",
             )
     T_fill = None
     if v.fill.temperature is not None:
