@@ -202,6 +202,8 @@ def _assess_group(
         )
         kind, T_cross = crossings[j]
         liquid_below, full_above = (T_cross, None) if kind == "dew" else (Tc, T_cross)
+        if full_above is not None and Tc <= TT[j, 0]:
+            full_above = None  # liquid-full only below Tc, and the whole range is above it
         fP = float(fill_P[j]) if has_fill_T[j] else None
         a = VesselAssessment(
             id=v.id,

@@ -182,11 +182,15 @@ def vessel_findings(
     has_liquid = np.isin(path.phase, ("two-phase", "liquid"))
     if np.any(has_liquid):
         T_liq = path.T[has_liquid]
+        lo_liq, hi_liq = float(T_liq.min()), float(T_liq.max())
+        edge = a.liquid_forms_below_K
+        if edge is not None and hi_liq < path.T[-1] and edge > hi_liq:
+            hi_liq = min(edge, float(path.T[-1]))  # the exact crossing, not the grid point
         out.append(
             Finding(
                 "liquid-present",
                 "warning",
-                f"liquid is present from {t(T_liq.min())} to {t(T_liq.max())}: the gas drawn off "
+                f"liquid is present from {t(lo_liq)} to {t(hi_liq)}: the gas drawn off "
                 "changes as liquid evaporates, and a liquefied gas must be filled by weight",
             )
         )
@@ -305,6 +309,7 @@ def _rule_findings(
         )
     ]
     rho = a.density_kg_m3 / v.fluid.molar_mass
+    M = v.fluid.molar_mass
     for r in rule_limits(v.fluid, v.rules.set, v.rules.test_pressure_Pa, v.atmospheric_pressure_Pa):
         checked.append(f"{v.rules.set}: {r.text}")
         if r.density_mol is None or rho > r.density_mol * (1 + 1e-12):
@@ -313,7 +318,13 @@ def _rule_findings(
                     "rule-broken",
                     "fail",
                     f"the charge breaks the rule '{r.text}' of {v.rules.set} "
-                    f"(test pressure {p(v.rules.test_pressure_Pa)})",
+                    f"(test pressure {p(v.rules.test_pressure_Pa)}): the filling ratio is "
+                    f"{rho * M / 1000:.3f} kg/L, the rule allows "
+                    + (
+                        "no charge at all"
+                        if r.density_mol is None or r.density_mol <= 0
+                        else f"at most {r.density_mol * M / 1000:.3f} kg/L"
+                    ),
                 )
             )
     return out

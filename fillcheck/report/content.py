@@ -87,7 +87,8 @@ def result_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
         rows.append(
             (f"at {label} temperature {t(e.temperature_K)}", f"{p(e.pressure_Pa)}  {e.phase}")
         )
-    rows.append((f"Z at {t(v.max_state.temperature_K)}", f"{v.max_state.Z:.4f}"))
+    z_top = "— (two-phase)" if v.max_state.phase == "two-phase" else f"{v.max_state.Z:.4f}"
+    rows.append((f"Z at {t(v.max_state.temperature_K)}", z_top))
     rows.append(
         ("pressure rise at highest temperature", units.pressure_rate_per_K(v.dP_dT_at_max_Pa_K, s))
     )
