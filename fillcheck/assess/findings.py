@@ -278,13 +278,16 @@ def _margin(
             "maximum storage temperature"
         )
     code = "margin-" + name.split()[0]
-    sign = "+" if margin >= 0 else "−"
+    sign = "+" if margin >= 0 else "-"
+    gauge_limit = limit - v.atmospheric_pressure_Pa
+    share = f"{margin / gauge_limit:+.1%} of the gauge limit" if gauge_limit > 0 else ""
     return Finding(
         code,
         "info",
         f"{name} {p(limit)}: highest pressure {p(P_top)}, "
-        f"margin {sign}{_span(abs(margin), system)} "
-        f"({margin / limit:+.1%}); {when}",
+        f"margin {sign}{_span(abs(margin), system)}"
+        + (f" ({share})" if share else "")
+        + f"; {when}",
     )
 
 
