@@ -11,6 +11,15 @@ Severity = Literal["fail", "review", "warning", "info"]
 Verdict = Literal["pass", "fail", "review"]
 
 
+def worst(words: set[str]) -> Verdict:
+    """fail before review before pass (severities "warning" and "info" count as pass)."""
+    if "fail" in words:
+        return "fail"
+    if "review" in words:
+        return "review"
+    return "pass"
+
+
 @dataclass(frozen=True)
 class Finding:
     """One finding: a stable code, a severity and a message for people."""
@@ -91,12 +100,7 @@ class VesselAssessment:
     @property
     def verdict(self) -> Verdict:
         """fail if any finding fails; review if any asks for review; pass otherwise."""
-        sev = {f.severity for f in self.findings}
-        if "fail" in sev:
-            return "fail"
-        if "review" in sev:
-            return "review"
-        return "pass"
+        return worst({f.severity for f in self.findings})
 
 
 @dataclass
@@ -114,9 +118,4 @@ class ScenarioAssessment:
     @property
     def verdict(self) -> Verdict:
         """The worst vessel verdict."""
-        verdicts = {v.verdict for v in self.vessels}
-        if "fail" in verdicts:
-            return "fail"
-        if "review" in verdicts:
-            return "review"
-        return "pass"
+        return worst({v.verdict for v in self.vessels})

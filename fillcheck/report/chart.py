@@ -93,12 +93,7 @@ def vessel_chart_svg(
     ax.set_title(f"{v.id}: {v.gas} ({v.model})", fontsize=10)
     ax.grid(True, lw=0.4, alpha=0.6)
     ax.legend(fontsize=7, loc="upper left", framealpha=0.9)
-    fig.tight_layout()
-    buf = io.StringIO()
-    fig.savefig(buf, format="svg")
-    svg = buf.getvalue()
-    start = svg.find("<svg")
-    return svg[start:] if start >= 0 else svg
+    return _svg(fig)
 
 
 def margin_chart_svg(vessels: list[VesselAssessment]) -> str:
@@ -130,6 +125,11 @@ def margin_chart_svg(vessels: list[VesselAssessment]) -> str:
     ax.set_ylabel("vessels")
     ax.legend(fontsize=8)
     ax.grid(True, lw=0.4, alpha=0.6)
+    return _svg(fig)
+
+
+def _svg(fig) -> str:  # noqa: ANN001
+    """A finished figure as an inline SVG element (no XML declaration)."""
     fig.tight_layout()
     buf = io.StringIO()
     fig.savefig(buf, format="svg")
