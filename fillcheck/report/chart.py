@@ -128,7 +128,7 @@ def margin_chart_svg(vessels: list[VesselAssessment]) -> str:
     return _svg(fig)
 
 
-def _svg(fig) -> str:  # noqa: ANN001
+def _svg(fig) -> str:
     """A finished figure as an inline SVG element (no XML declaration)."""
     fig.tight_layout()
     buf = io.StringIO()
