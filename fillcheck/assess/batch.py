@@ -19,6 +19,7 @@ from fillcheck.assess.cautions import cautions_for
 from fillcheck.assess.charge import largest_safe_densities
 from fillcheck.assess.findings import vessel_findings
 from fillcheck.assess.result import EndState, VesselAssessment
+from fillcheck.assess.uncertainty import pressure_uncertainty
 from fillcheck.scenario.resolve import T_HARD_MAX_K, VesselInput
 from fillcheck.thermo.fluid import Fluid
 from fillcheck.thermo.vessel import VesselPath, saturation_crossing, vessel_path
@@ -83,9 +84,12 @@ def _saturation_table_crossings(f: Fluid, rho: np.ndarray) -> tuple[np.ndarray, 
     The table is uniform in √(Tc − T), where the saturated densities are close to linear.
     """
     Tc, _, rhoc = f.model_critical
-    s = np.linspace(np.sqrt(Tc - f.T_min_saturation), np.sqrt(1e-3), 400)
-    T = Tc - s * s
-    sat = f.saturation_molar(T)
+    table = getattr(f, "_crossing_table", None)
+    if table is None:
+        s = np.linspace(np.sqrt(Tc - f.T_min_saturation), np.sqrt(1e-3), 400)
+        table = (Tc - s * s, f.saturation_molar(Tc - s * s))
+        f._crossing_table = table  # type: ignore[attr-defined]  # per Fluid, computed once
+    T, sat = table
     dew = np.interp(rho, sat.rho_vapor, T, left=np.nan, right=Tc)  # ρ'' rises with T
     full = np.interp(-rho, -sat.rho_liquid, T, left=f.T_min_saturation, right=Tc)  # ρ' falls
     dew = np.where(rho < rhoc, dew, np.nan)
@@ -188,6 +192,9 @@ def _assess_group(
         by_weight[ok] = liquid_at_fill
     Tc = f.model_critical[0]
     sat_curve = _saturation_curve(f, TT)
+    i_top = PP.argmax(axis=1)
+    rows = np.arange(n)
+    u_top = pressure_uncertainty(f, TT[rows, i_top], rho, phase[rows, i_top])
     results = []
     for j, v in enumerate(vs):
         p_j = VesselPath(
@@ -237,6 +244,7 @@ def _assess_group(
             else float(safe[j] * M * v.water_capacity_m3),
             max_safe_fill_pressure_Pa=_num(safe_fill_P[j]),
             fill_by_weight=bool(by_weight[j]),
+            pressure_uncertainty_at_top=float(u_top[j]),
             governing_limit=governing[j],
             entered=v.entered,
             limits_checked=[],

@@ -151,9 +151,11 @@ def vessel_findings(
             )
         )
     else:
-        u_top = float(
-            pressure_uncertainty(f, path.T[i_top], path.rho_mol[i_top], path.phase[i_top])
-        )
+        u_top = a.pressure_uncertainty_at_top
+        if u_top is None:
+            u_top = float(
+                pressure_uncertainty(f, path.T[i_top], path.rho_mol[i_top], path.phase[i_top])
+            )
         source = (
             "the reference equation's uncertainty"
             if f.is_reference

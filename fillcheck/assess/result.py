@@ -75,6 +75,8 @@ class VesselAssessment:
     entered: dict[str, str]
     limits_checked: list[str]
     hazards: tuple[str, ...]
+    pressure_uncertainty_at_top: float | None = None
+    """The model's relative pressure uncertainty at the highest-pressure state [-]."""
     fill_by_weight: bool = False
     """Whether the largest safe charge holds liquid at the fill temperature (so its stop
     pressure is withheld: a liquefied gas is filled by weight)."""

@@ -254,20 +254,22 @@ class Fluid:
         if np.any(far):
             s = saturation_newton(self.eos, T[far], rl[far], rv[far], self.eos.rho_r)
             out_l[far], out_v[far], out_p[far] = s.rho_liquid, s.rho_vapor, s.P
-        for i in np.flatnonzero(near):
-            s = self._near_critical_saturation(float(T[i]))
-            out_l[i], out_v[i], out_p[i] = s.rho_liquid[0], s.rho_vapor[0], s.P[0]
+        if np.any(near):
+            s = self._near_critical_saturation(T[near])
+            out_l[near], out_v[near], out_p[near] = s.rho_liquid, s.rho_vapor, s.P
         return Saturation(T=T, P=out_p, rho_liquid=out_l, rho_vapor=out_v)
 
-    def _near_critical_saturation(self, T: float) -> Saturation:
+    def _near_critical_saturation(self, T: np.ndarray) -> Saturation:
         """Saturation close to Tc by continuation: from NEAR_CRITICAL_SPAN_K below Tc, steps
         that shrink the distance to Tc threefold, each started from the last solution scaled
         with the critical exponent β ≈ 0.325 of real fluids (Sengers, Levelt Sengers (1986),
-        Annu. Rev. Phys. Chem. 37, 189), so every start lies outside the spinodals."""
+        Annu. Rev. Phys. Chem. 37, 189), so every start lies outside the spinodals. All the
+        temperatures step together (vectorised)."""
         Tc, _, rhoc = self.model_critical
         anc = self.eos.ancillaries
-        dT = NEAR_CRITICAL_SPAN_K
-        T1 = np.array([Tc - dT])
+        target = Tc - np.asarray(T, dtype=float)
+        dT = np.full(target.shape, NEAR_CRITICAL_SPAN_K)
+        T1 = Tc - dT
         s = saturation_newton(
             self.eos,
             T1,
@@ -275,14 +277,12 @@ class Fluid:
             ancillary_value(anc["saturated_vapour_density"], T1),
             self.eos.rho_r,
         )
-        target = Tc - T
-        while dT > target:
-            new = max(dT / 3.0, target)
+        while np.any(dT > target):
+            new = np.maximum(dT / 3.0, target)
             x = (new / dT) ** 0.325
-            Tn = np.array([Tc - new])
             s = saturation_newton(
                 self.eos,
-                Tn,
+                Tc - new,
                 rhoc + (s.rho_liquid - rhoc) * x,
                 rhoc + (s.rho_vapor - rhoc) * x,
                 self.eos.rho_r,

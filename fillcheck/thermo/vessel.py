@@ -22,11 +22,7 @@ import numpy as np
 
 from fillcheck.errors import ConvergenceError, StateError
 from fillcheck.models.base import FloatArray
-from fillcheck.thermo.properties import (
-    dP_dT_at_constant_density,
-    pressure,
-    residual_enthalpy_over_RT,
-)
+from fillcheck.thermo.properties import residual_enthalpy_over_RT
 
 if TYPE_CHECKING:
     from fillcheck.thermo.fluid import Fluid
@@ -100,8 +96,9 @@ def vessel_path(fluid: Fluid, T: FloatArray, rho_mol: FloatArray) -> VesselPath:
             dPdT[idx] = dh * model.R / (1.0 / v - 1.0 / l)
     one = ~two
     if np.any(one):
-        P[one] = pressure(model, T[one], rho[one])
-        dPdT[one] = dP_dT_at_constant_density(model, T[one], rho[one])
+        d = model.alphar(T[one], rho[one])
+        P[one] = rho[one] * model.R * T[one] * (1.0 + d.a01)
+        dPdT[one] = rho[one] * model.R * (1.0 + d.a01 - d.a11)
     if not (np.all(np.isfinite(P)) and np.all(np.isfinite(dPdT))):
         raise ConvergenceError(f"{model.info.name}: closed-vessel state not finite")
     phase = np.where(
