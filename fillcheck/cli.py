@@ -44,6 +44,8 @@ def _root() -> None:
       fillcheck check scenarios/welding_supply_refill.toml
       fillcheck check scenarios/beverage_co2_cage.toml --units us
       fillcheck check scenarios/hydrogen_bank.toml --json > result.json
+      fillcheck check scenarios/propane_forklift_store.toml --html report.html
+      fillcheck check my_register.csv
       fillcheck stop-table scenarios/welding_supply_refill.toml --vessel AR-50-014
       fillcheck reading scenarios/welding_supply_refill.toml --vessel AR-50-014
           --pressure "215 barg" --temperature "35 degC"
@@ -288,6 +290,7 @@ def gases() -> None:
     from fillcheck.fluids.catalog import all_fluids
     from fillcheck.models.registry import default_model_id
 
+    typer.echo(f"{'gas':24s} {'formula':10s} {'CAS':12s} default model")
     for d in all_fluids():
         typer.echo(f"{d.name:24s} {d.formula:10s} {d.cas:12s} {default_model_id(d)}")
 
