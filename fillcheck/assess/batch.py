@@ -104,7 +104,7 @@ def _liquid_fraction(f: Fluid, T: np.ndarray, rho: np.ndarray) -> np.ndarray:
         two = (rho - st.rho_vapor) / (st.rho_liquid - st.rho_vapor)
     rhoc = f.model_critical[2]
     single = np.where(
-        st.phase == "liquid", 1.0, np.where((st.phase == "supercritical") & (rho >= rhoc), 1.0, 0.0)
+        st.phase == "liquid", 1.0, np.where((st.phase == "supercritical") & (rho > rhoc), 1.0, 0.0)
     )
     return np.where(st.phase == "two-phase", two, single)
 

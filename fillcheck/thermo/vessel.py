@@ -131,7 +131,7 @@ def saturation_crossing(fluid: Fluid, rho_mol: float) -> tuple[SaturationCrossin
     branch = "rho_vapor" if kind == "dew" else "rho_liquid"
 
     def f(s: float) -> float:
-        if s <= 0.0:
+        if s * s <= 1e-10 * Tc:  # at the critical point to round-off
             return float(np.log(rhoc / rho_mol))
         sat = fluid.saturation_molar(np.array([Tc - s * s]))
         return float(np.log(getattr(sat, branch)[0] / rho_mol))
@@ -143,7 +143,7 @@ def saturation_crossing(fluid: Fluid, rho_mol: float) -> tuple[SaturationCrossin
         return kind, None  # still all gas at the triple point
     if kind == "liquid-full" and f_hi <= 0.0:
         return kind, T_min  # liquid-full already at the triple point
-    if rho_mol == rhoc:
+    if abs(rho_mol / rhoc - 1.0) < 1e-9:  # the critical isochore meets the curve at Tc
         return kind, Tc
     s_lo, f_lo = 0.0, f(0.0)
     side = 0
@@ -152,7 +152,8 @@ def saturation_crossing(fluid: Fluid, rho_mol: float) -> tuple[SaturationCrossin
         if not (s_lo < s < s_hi):
             s = 0.5 * (s_lo + s_hi)
         fs = f(s)
-        if abs(fs) < 1e-13 or (s_hi - s_lo) < 1e-13 * max(s_hi, 1.0):
+        # ΔT = 2 s Δs: a bracket of 1e-9 √K in s is far below a microkelvin
+        if abs(fs) < 1e-13 or (s_hi - s_lo) < 1e-9:
             return kind, Tc - s * s
         if (fs > 0.0) == (f_lo > 0.0):
             s_lo, f_lo = s, fs
