@@ -99,7 +99,8 @@ def largest_safe_densities(
         if np.any(below):
             sat = fluid.saturation_molar(Tv[below])
             r[below] = sat.rho_vapor + (1.0 - frac[below]) * (sat.rho_liquid - sat.rho_vapor)
-        r[has & ~below] = rhoc * (1.0 - 1e-9)  # above Tc there is no vapour space to keep: stay below critical
+        # above Tc there is no vapour space to keep: stay (strictly) below the critical density
+        r[has & ~below] = rhoc * (1.0 - 1e-9)
         cands.append((r, "minimum vapour space"))
     for j, v in enumerate(vs):
         if v.rules is None:
