@@ -230,7 +230,7 @@ def test_fluid_records_are_immutable_and_hashable() -> None:
 
 # Tolerances against chemicals' default values. Its defaults for most of these gases are its
 # 'HEOS' table, REFPROP's constants of the same reference equations, so agreement there is mostly
-# a check against transcription slips; the second test below uses an older, independent table.
+# a check against copying slips; the second test below uses an older, independent table.
 # - Tc 0.5 %: critical temperatures of one gas from different compilations (IUPAC, Mathews,
 #   REFPROP) and the critical point a fitted equation of state passes through agree to ~0.2 %.
 # - Pc 2 %: critical pressures are harder to measure; compilations differ by up to ~1 %.
@@ -311,7 +311,7 @@ def test_against_an_older_independent_table(f: FluidData) -> None:
     assert abs(f.acentric_factor - w) < tol, method
 
 
-def test_nitrogen_trifluoride_is_transcribed_from_chemicals() -> None:
+def test_nitrogen_trifluoride_is_copied_from_chemicals() -> None:
     f = lookup("NF3")
     assert f.coolprop_name is None
     M = elements.molecular_weight(elements.simple_formula_parser("NF3")) / 1e3
@@ -334,11 +334,11 @@ def test_nitrogen_trifluoride_is_transcribed_from_chemicals() -> None:
         assert f"method '{method_list(f.cas)[0]}'" in f.sources[key]
 
 
-# --- against CoolProp (the transcription check) ----------------------------------------------
+# --- against CoolProp (the copy check) ----------------------------------------------
 
 
 @pytest.mark.parametrize("f", COOLPROP, ids=[f.name for f in COOLPROP])
-def test_transcribed_from_coolprop(f: FluidData) -> None:
+def test_copied_from_coolprop(f: FluidData) -> None:
     n = f.coolprop_name
     assert n is not None
     tol = 1e-9  # the file rounds to 10 significant digits
@@ -380,7 +380,7 @@ CPG_COLUMN_WRONG = {"chlorine"}
 
 
 @pytest.mark.parametrize("f", POLING, ids=[f.name for f in POLING])
-def test_poling_coefficients_transcribed(f: FluidData) -> None:
+def test_poling_coefficients_copied(f: FluidData) -> None:
     row = hc.Cp_data_Poling.loc[f.cas]
     cp = f.ideal_gas_cp
     assert cp.coefficients == tuple(float(row[f"a{i}"]) for i in range(5))
@@ -401,7 +401,7 @@ SHOMATE = [f for f in WITH_CP if f.ideal_gas_cp.form == "shomate"]
 
 
 @pytest.mark.parametrize("f", SHOMATE, ids=[f.name for f in SHOMATE])
-def test_shomate_coefficients_transcribed(f: FluidData) -> None:
+def test_shomate_coefficients_copied(f: FluidData) -> None:
     hc.WebBook_Shomate_gases  # noqa: B018  (loads chemicals' tables)
     low = hc.WebBook_Shomate_coefficients[f.cas][2][0]
     cp = f.ideal_gas_cp

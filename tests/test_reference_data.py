@@ -7,7 +7,7 @@ These tests check them without the package's own evaluator:
 - identity: gas constant, molar mass, reducing, critical and triple-point states, validity range
   and publication key equal to CoolProp's for the same equation; the equation is the one
   ``/work/shared/REFERENCE-EQUATIONS.md`` names (by CoolProp's BibTeX key);
-- transcription: a small, slow, literal evaluator written here (alpha^r and alpha^0 only, no
+- coefficients: a small, slow, literal evaluator written here (alpha^r and alpha^0 only, no
   derivatives) reproduces CoolProp's ``alphar()`` and ``alpha0()`` to 1e-10 at states in the gas,
   liquid and supercritical regions of every gas;
 - ancillaries: each reproduces CoolProp's own ancillary and lies within 1 % (pressure) or 2 %
@@ -332,7 +332,7 @@ def test_identity_matches_coolprop(gas, cp_name):
 
 
 # --------------------------------------------------------------------------------------------
-# Transcription
+# Coefficient copy
 # --------------------------------------------------------------------------------------------
 
 
@@ -382,7 +382,7 @@ def test_ancillaries(gas, cp_name):
         assert len(temps) == 3 and all(T <= Tc - 0.5 for T in temps)
         errors = []
         for T in temps:
-            # the transcription: CoolProp's own evaluation of the same ancillary
+            # the coefficient copy: CoolProp's own evaluation of the same ancillary
             theirs = CP.saturation_ancillary(cp_name, output, quality, "T", T)
             assert ancillary(a, T) == pytest.approx(theirs, rel=1e-12)
             # the ancillary against the saturation state of the equation

@@ -67,7 +67,7 @@ def _solid(cp_name: str, T: float, P: float) -> bool:
 
 def reference_grid(data, T_lo: float, T_hi: float, P_max: float, P_min: float = 1e5, nP: int = 40):
     """Reference densities on the box grid and saturation states, from fillcheck's own
-    transcription of the reference equation (tests/test_reference_equations.py proves it)."""
+    coefficient copy of the reference equation (tests/test_reference_equations.py proves it)."""
     ref = fillcheck.fluid(data.name, model="reference")
     Tc, _, rhoc = ref.model_critical
     Ts = np.arange(T_lo, T_hi + 1e-9, 5.0)
