@@ -102,7 +102,11 @@ def saturation_T(
     P = np.exp(ln_P)
     rv, rl = phase_roots(model, T, P)
     ok = np.isfinite(P) & np.isfinite(rv) & np.isfinite(rl) & (rl >= rv)
-    ok &= ln_lo > np.log(Pc) - 45.9
+    # converged means a genuine pair of roots with equal fugacity, whichever side the
+    # iteration approached from (a Newton path from above never moves the lower bracket)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        gap = np.abs(_ln_phi(model, T, rl, P) - _ln_phi(model, T, rv, P))
+    ok &= (rl > rv * (1.0 + 1e-10)) & (gap < 1e-9)
     if not np.all(ok):
         bad = T[~ok][0]
         raise ConvergenceError(f"{model.info.name}: saturation not bracketed at {bad:.6g} K")
