@@ -96,7 +96,7 @@ def check(
     """
     from fillcheck.assess import assess_scenario
 
-    try:
+    with _guarded("the check", file):
         register = file.suffix.lower() == ".csv"
         if register:
             from fillcheck.scenario.register import load_register
@@ -108,18 +108,6 @@ def check(
             scenario = load_scenario(file)
         with _progress(len(scenario.vessels)) as tick:
             result = assess_scenario(scenario, units.value, tick, is_register=register)
-    except InputError as exc:
-        _refuse(str(exc))
-    except FillcheckError as exc:
-        typer.echo(f"fillcheck: could not complete the check: {exc}", err=True)
-        raise typer.Exit(EXIT_FINDINGS) from None
-    except Exception as exc:  # a defect in fillcheck: never a silent pass, never a traceback
-        typer.echo(
-            f"fillcheck: internal error ({type(exc).__name__}: {exc}); no verdict was "
-            "reached. Please report this with the scenario file.",
-            err=True,
-        )
-        raise typer.Exit(EXIT_FINDINGS) from None
     if html_out is not None:
         from fillcheck.report.html_report import render_html, write_html
 
@@ -148,6 +136,30 @@ def _console(width: int | None) -> object:
     return Console(
         width=width, highlight=False, no_color=plain, color_system=None if plain else "auto"
     )
+
+
+@contextmanager
+def _guarded(what: str, file: Path) -> Iterator[None]:
+    """One way out for every command: refused input exits 2 with its sentence (prefixed with
+    the file name where the message lacks it); a computation that cannot finish, or a defect,
+    exits 1 with one line, never a traceback and never a silent pass."""
+    try:
+        yield
+    except InputError as exc:
+        msg = str(exc)
+        _refuse(msg if msg.startswith((file.name, str(file))) else f"{file.name}: {msg}")
+    except FillcheckError as exc:
+        typer.echo(f"fillcheck: could not complete {what}: {exc}", err=True)
+        raise typer.Exit(EXIT_FINDINGS) from None
+    except typer.Exit:
+        raise
+    except Exception as exc:  # a defect in fillcheck
+        typer.echo(
+            f"fillcheck: internal error ({type(exc).__name__}: {exc}); no result was "
+            "reached. Please report this with the scenario file.",
+            err=True,
+        )
+        raise typer.Exit(EXIT_FINDINGS) from None
 
 
 @contextmanager
@@ -202,7 +214,7 @@ def stop_table_command(
     from fillcheck.report.planning_report import planning_json, render_stop_tables
     from fillcheck.scenario.resolve import load_scenario
 
-    try:
+    with _guarded("the table", file):
         sc = load_scenario(file)
         lo = _option(u.parse_temperature, start, "--from")
         hi = _option(u.parse_temperature, stop, "--to")
@@ -213,11 +225,6 @@ def stop_table_command(
             raise InputError(f"--step '{step}' gives more than 400 rows; choose a larger step")
         temps = np.arange(lo, hi + 1e-9, dT)
         tables = [stop_table(v, sc.reference_temperature_K, temps) for v in _pick(sc, vessel)]
-    except InputError as exc:
-        _refuse(str(exc))
-    except FillcheckError as exc:
-        typer.echo(f"fillcheck: could not complete the table: {exc}", err=True)
-        raise typer.Exit(EXIT_FINDINGS) from None
     if json_out:
         typer.echo(planning_json(tables))
     else:
@@ -255,7 +262,7 @@ def reading_command(
     from fillcheck.report.planning_report import planning_json, render_reading
     from fillcheck.scenario.resolve import load_scenario
 
-    try:
+    with _guarded("the reading", file):
         sc = load_scenario(file)
         v = _pick(sc, vessel)[0]
         P = _option(
@@ -263,12 +270,6 @@ def reading_command(
         )
         T = _option(u.parse_temperature, temperature, "--temperature")
         r = read_gauge(v, sc.reference_temperature_K, P, T)
-    except InputError as exc:
-        msg = str(exc)
-        _refuse(msg if msg.startswith(file.name) else f"{file.name}: {msg}")
-    except FillcheckError as exc:
-        typer.echo(f"fillcheck: could not read the gauge: {exc}", err=True)
-        raise typer.Exit(EXIT_FINDINGS) from None
     if json_out:
         typer.echo(planning_json(r))
     else:

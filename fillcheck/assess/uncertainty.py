@@ -16,17 +16,13 @@ from __future__ import annotations
 
 import numpy as np
 
+from fillcheck.fluids.accuracy import REFERENCE_DENSITY_UNCERTAINTY
 from fillcheck.models.base import FloatArray
 from fillcheck.thermo.fluid import Fluid
 from fillcheck.thermo.properties import residual
 
-REFERENCE_DENSITY_UNCERTAINTY = 0.002
-"""Density uncertainty fillcheck assumes for every reference equation of state [-].
+__all__ = ["REFERENCE_DENSITY_UNCERTAINTY", "pressure_uncertainty"]
 
-The publications state 0.01–0.1 % in density for the wide-range reference equations (e.g. Span
-et al. 2000 for nitrogen, Span & Wagner 1996 for carbon dioxide, Tegeler et al. 1999 for argon)
-and about 0.1–0.5 % for the short industrial equations of Lemmon & Span (2006) at cylinder
-conditions (figures from memory); fillcheck takes 0.2 % for all of them."""
 DENSE_BELOW_REDUCED_T = 1.25
 """A state denser than critical below this T/Tc counts as dense fluid for the cubic errors."""
 

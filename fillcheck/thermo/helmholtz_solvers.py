@@ -23,6 +23,7 @@ import numpy as np
 
 from fillcheck.errors import ConvergenceError
 from fillcheck.models.base import FloatArray, HelmholtzModel
+from fillcheck.thermo.properties import pressure
 from fillcheck.thermo.saturation import Saturation
 
 _MAX_ITER = 200
@@ -118,7 +119,7 @@ def density_bracketed(
         h = np.maximum(np.where(below, lo, rhoc), np.minimum(guess, model.max_density_mol()))[need]
         h = np.minimum(h * 1.05, model.max_density_mol())
         for _ in range(60):
-            p_h = _pressure(model, T[need], h)
+            p_h = pressure(model, T[need], h)
             short = p_h < P[need]
             if not np.any(short):
                 break
@@ -155,10 +156,6 @@ def density_bracketed(
     return x
 
 
-def _pressure(model: HelmholtzModel, T: FloatArray, rho: FloatArray) -> FloatArray:
-    return rho * model.R * T * (1.0 + model.alphar(T, rho).a01)
-
-
 def loop_closure(
     model: HelmholtzModel, Tc_listed: float, rhoc: float
 ) -> tuple[float, float, float]:
@@ -178,7 +175,7 @@ def loop_closure(
 
     lo, hi = Tc_listed - 10.0, Tc_listed + 1.0
     if slope(hi)[0] < 0 or slope(lo)[0] > 0:
-        return Tc_listed, float(_pressure(model, np.array(Tc_listed), np.array(rhoc))), rhoc
+        return Tc_listed, float(pressure(model, np.array(Tc_listed), np.array(rhoc))), rhoc
     for _ in range(60):
         mid = 0.5 * (lo + hi)
         if slope(mid)[0] < 0:
@@ -186,4 +183,4 @@ def loop_closure(
         else:
             hi = mid
     rho_c = slope(hi)[1]
-    return hi, float(_pressure(model, np.array(hi), np.array(rho_c))), rho_c
+    return hi, float(pressure(model, np.array(hi), np.array(rho_c))), rho_c
