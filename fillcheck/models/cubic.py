@@ -253,33 +253,11 @@ class CubicModel:
         )
         return a, a1, a2
 
-    # --- density part -----------------------------------------------------------------------
-    def _F(self, rho: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
-        """F(ρ), ρF'(ρ) and ρ²F''(ρ) [m³/mol · mol/m³ = -, scaled by ρ as named]."""
-        D1, D2 = self.D1, self.D2
-        e1, e2 = 1.0 + D1 * rho, 1.0 + D2 * rho
-        F = rho / e1 if D1 == D2 else np.log(e1 / e2) / (D1 - D2)
-        rF1 = rho / (e1 * e2)
-        r2F2 = -(rho**2) * (D1 + D2 + 2.0 * D1 * D2 * rho) / (e1 * e2) ** 2
-        return F, rF1, r2F2
-
     def alphar(self, T: FloatArray, rho_mol: FloatArray) -> ResidualDerivatives:
         """αʳ and its scaled derivatives at T [K] and molar density ρ [mol/m³] (broadcast)."""
         T, rho = np.broadcast_arrays(np.asarray(T, dtype=float), np.asarray(rho_mol, dtype=float))
-        a, a1, a2 = self.attraction(T)
-        RT = self.R * T
-        A = a / RT
-        TA_T = (T * a1 - a) / RT
-        T2A_TT = (T * T * a2 - 2.0 * T * a1 + 2.0 * a) / RT
-        Brho = (self.b - self.c) * rho
-        F, rF1, r2F2 = self._F(rho)
-        return ResidualDerivatives(
-            a00=-np.log1p(-Brho) - A * F,
-            a10=TA_T * F,
-            a01=Brho / (1.0 - Brho) - A * rF1,
-            a20=-(T2A_TT + 2.0 * TA_T) * F,
-            a11=TA_T * rF1,
-            a02=(Brho / (1.0 - Brho)) ** 2 - A * r2F2,
+        return residual_from_parameters(
+            T, rho, self.attraction(T), self.b - self.c, self.D1, self.D2, self.R
         )
 
     def max_density_mol(self) -> float:
@@ -308,28 +286,86 @@ class CubicModel:
         """
         T, P = np.broadcast_arrays(np.asarray(T, dtype=float), np.asarray(P, dtype=float))
         a, _, _ = self.attraction(T)
-        RT = self.R * T
-        A = a * P / RT**2
-        B = self.b * P / RT
-        u = self.kind.delta1 + self.kind.delta2
-        w = self.kind.delta1 * self.kind.delta2
-        c2 = (u - 1.0) * B - 1.0
-        c1 = A + (w - u) * B * B - u * B
-        c0 = -(A * B + w * B * B + w * B**3)
-        z_lo, z_hi, three = _cubic_real_roots(c2, c1, c0, B)
-        # The liquid root of a cubic in Z is ill-conditioned at low pressure (Z_l ~ B << 1);
-        # in η = B/Z it is the largest root of a well-conditioned cubic, η in (0, 1).
-        usable = c0 < -1e-12 * np.abs(A * B)
-        safe_c0 = np.where(usable, c0, -1.0)
-        _, e_hi, e_three = _cubic_real_roots(
-            c1 * B / safe_c0, c2 * B * B / safe_c0, B**3 / safe_c0, np.zeros_like(B)
-        )
-        liquid_eta = usable & e_three & (e_hi < 1.0) & (e_hi > 0.0)
-        z_lo = np.where(liquid_eta, B / np.where(liquid_eta, e_hi, 1.0), z_lo)
-        z_lo = np.where(three | liquid_eta, z_lo, z_hi)
-        v_hi = z_lo * RT / P - self.c
-        v_lo = z_hi * RT / P - self.c
-        return 1.0 / v_lo, 1.0 / v_hi
+        return cubic_density_roots(self.kind, a, self.b, self.c, self.R * T, P)
+
+
+def cubic_density_roots(
+    kind: CubicKind, a: FloatArray, b: FloatArray, c: FloatArray, RT: FloatArray, P: FloatArray
+) -> tuple[FloatArray, FloatArray]:
+    """Smallest and largest molar densities of a cubic with parameters a, b, c at RT and P.
+
+    a [Pa·m⁶/mol²], b and c [m³/mol], RT [J/mol] and P [Pa] broadcast together; returns
+    [mol/m³] (see :meth:`CubicModel.density_roots`).
+    """
+    A = a * P / RT**2
+    B = b * P / RT
+    u = kind.delta1 + kind.delta2
+    w = kind.delta1 * kind.delta2
+    c2 = (u - 1.0) * B - 1.0
+    c1 = A + (w - u) * B * B - u * B
+    c0 = -(A * B + w * B * B + w * B**3)
+    z_lo, z_hi, three = _cubic_real_roots(c2, c1, c0, B)
+    # The liquid root of a cubic in Z is ill-conditioned at low pressure (Z_l ~ B << 1);
+    # in η = B/Z it is the largest root of a well-conditioned cubic, η in (0, 1).
+    usable = c0 < -1e-12 * np.abs(A * B)
+    safe_c0 = np.where(usable, c0, -1.0)
+    _, e_hi, e_three = _cubic_real_roots(
+        c1 * B / safe_c0, c2 * B * B / safe_c0, B**3 / safe_c0, np.zeros_like(B)
+    )
+    liquid_eta = usable & e_three & (e_hi < 1.0) & (e_hi > 0.0)
+    z_lo = np.where(liquid_eta, B / np.where(liquid_eta, e_hi, 1.0), z_lo)
+    z_lo = np.where(three | liquid_eta, z_lo, z_hi)
+    v_hi = z_lo * RT / P - c
+    v_lo = z_hi * RT / P - c
+    return 1.0 / v_lo, 1.0 / v_hi
+
+
+def density_function(
+    rho: FloatArray, D1: FloatArray, D2: FloatArray
+) -> tuple[FloatArray, FloatArray, FloatArray]:
+    """F(ρ), ρF'(ρ) and ρ²F''(ρ) of the attraction term (module docstring) [-].
+
+    D₁ and D₂ may be arrays (a mixture at varying composition); where they are equal (van der
+    Waals) F = ρ/(1 + Dρ).
+    """
+    e1, e2 = 1.0 + D1 * rho, 1.0 + D2 * rho
+    dD = np.asarray(D1 - D2)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        F = np.where(dD == 0.0, rho / e1, np.log(e1 / e2) / np.where(dD == 0.0, 1.0, dD))
+    rF1 = rho / (e1 * e2)
+    r2F2 = -(rho**2) * (D1 + D2 + 2.0 * D1 * D2 * rho) / (e1 * e2) ** 2
+    return F, rF1, r2F2
+
+
+def residual_from_parameters(
+    T: FloatArray,
+    rho: FloatArray,
+    attraction: tuple[FloatArray, FloatArray, FloatArray],
+    covolume: FloatArray,
+    D1: FloatArray,
+    D2: FloatArray,
+    R: float,
+) -> ResidualDerivatives:
+    """αʳ and its scaled derivatives from the cubic's parameters at T [K], ρ [mol/m³].
+
+    ``attraction`` is (a, da/dT, d²a/dT²) [Pa·m⁶/mol², per K, per K²]; ``covolume`` is b − c
+    [m³/mol]; D₁,₂ = c + δ₁,₂ b [m³/mol] (all broadcast with T and ρ).
+    """
+    a, a1, a2 = attraction
+    RT = R * T
+    A = a / RT
+    TA_T = (T * a1 - a) / RT
+    T2A_TT = (T * T * a2 - 2.0 * T * a1 + 2.0 * a) / RT
+    Brho = covolume * rho
+    F, rF1, r2F2 = density_function(rho, D1, D2)
+    return ResidualDerivatives(
+        a00=-np.log1p(-Brho) - A * F,
+        a10=TA_T * F,
+        a01=Brho / (1.0 - Brho) - A * rF1,
+        a20=-(T2A_TT + 2.0 * TA_T) * F,
+        a11=TA_T * rF1,
+        a02=(Brho / (1.0 - Brho)) ** 2 - A * r2F2,
+    )
 
 
 def _cubic_real_roots(
