@@ -108,189 +108,467 @@ def _co2(**changes: str | None) -> str:
 
 CASES: list[Bad] = [
     # --- pressures without gauge/absolute, unknown and wrong units ---------------------------
-    Bad("bare_bar_pressure",
+    Bad(
+        "bare_bar_pressure",
         scenario(vessel(fill='{ pressure = "200 bar", temperature = "15 degC" }')),
-        "fill.pressure", ("200 bar", "200 barg", "200 bara", "gauge", "absolute")),
-    Bad("bare_psi_pressure",
+        "fill.pressure",
+        ("200 bar", "200 barg", "200 bara", "gauge", "absolute"),
+    ),
+    Bad(
+        "bare_psi_pressure",
         scenario(vessel(fill='{ pressure = "3000 psi", temperature = "59 degF" }')),
-        "fill.pressure", ("3000 psi", "psig", "psia")),
-    Bad("bare_bar_relief_pressure",
-        scenario(vessel(limits='{ allowable_pressure = "300 barg", '
-                               'relief_set_pressure = "330 bar" }')),
-        "limits.relief_set_pressure", ("barg",)),
-    Bad("bare_bar_atmospheric_pressure",
+        "fill.pressure",
+        ("3000 psi", "psig", "psia"),
+    ),
+    Bad(
+        "bare_bar_relief_pressure",
+        scenario(
+            vessel(limits='{ allowable_pressure = "300 barg", relief_set_pressure = "330 bar" }')
+        ),
+        "limits.relief_set_pressure",
+        ("barg",),
+    ),
+    Bad(
+        "bare_bar_atmospheric_pressure",
         scenario(head='atmospheric_pressure = "1 bar"'),
-        "atmospheric_pressure", ("bara",), vessel_id=None),
-    Bad("unknown_unit_qt", scenario(vessel(water_capacity='"50 qt"')),
-        "water_capacity", ("qt", ("unknown", "not a unit")), forbid=("kg",)),
-    Bad("unknown_unit_litres_question_mark", scenario(vessel(water_capacity='"50 litres?"')),
-        "water_capacity", ("litres?", "unknown", " L")),
-    Bad("wrong_kind_of_unit_mass_as_volume", scenario(vessel(water_capacity='"50 kg"')),
-        "water_capacity", ("mass", "volume", "50 L")),
-    Bad("wrong_kind_of_unit_filling_ratio",
+        "atmospheric_pressure",
+        ("bara",),
+        vessel_id=None,
+    ),
+    Bad(
+        "unknown_unit_qt",
+        scenario(vessel(water_capacity='"50 qt"')),
+        "water_capacity",
+        ("qt", ("unknown", "not a unit")),
+        forbid=("kg",),
+    ),
+    Bad(
+        "unknown_unit_litres_question_mark",
+        scenario(vessel(water_capacity='"50 litres?"')),
+        "water_capacity",
+        ("litres?", "unknown", " L"),
+    ),
+    Bad(
+        "wrong_kind_of_unit_mass_as_volume",
+        scenario(vessel(water_capacity='"50 kg"')),
+        "water_capacity",
+        ("mass", "volume", "50 L"),
+    ),
+    Bad(
+        "wrong_kind_of_unit_filling_ratio",
         scenario(vessel(fill='{ filling_ratio = "0.3 kg" }')),
-        "fill.filling_ratio", ("kg/L",)),
-    Bad("number_without_unit", scenario(vessel(water_capacity="50")),
-        "water_capacity", ("unit", "50 L")),
-    Bad("ambiguous_temperature_unit_c",
+        "fill.filling_ratio",
+        ("kg/L",),
+    ),
+    Bad(
+        "number_without_unit",
+        scenario(vessel(water_capacity="50")),
+        "water_capacity",
+        ("unit", "50 L"),
+    ),
+    Bad(
+        "ambiguous_temperature_unit_c",
         scenario(vessel(fill='{ pressure = "150 barg", temperature = "15 C" }')),
-        "fill.temperature", ("ambiguous", "degC")),
-    Bad("thousands_separator", scenario(vessel(water_capacity='"1,000 L"')),
-        "water_capacity", ("1,000 L", "separator")),
-    Bad("empty_quantity", scenario(vessel(water_capacity='""')),
-        "water_capacity", ("empty", "50 L")),
-    Bad("not_a_number", scenario(vessel(fill='{ pressure = "nan barg", temperature = "15 degC" }')),
-        "fill.pressure", ("finite",)),
+        "fill.temperature",
+        ("ambiguous", "degC"),
+    ),
+    Bad(
+        "thousands_separator",
+        scenario(vessel(water_capacity='"1,000 L"')),
+        "water_capacity",
+        ("1,000 L", "separator"),
+    ),
+    Bad(
+        "empty_quantity", scenario(vessel(water_capacity='""')), "water_capacity", ("empty", "50 L")
+    ),
+    Bad(
+        "not_a_number",
+        scenario(vessel(fill='{ pressure = "nan barg", temperature = "15 degC" }')),
+        "fill.pressure",
+        ("finite",),
+    ),
     # --- values out of range ---------------------------------------------------------------
-    Bad("negative_water_capacity", scenario(vessel(water_capacity='"-50 L"')),
-        "water_capacity", ("-50 L", ("negative", "below zero", "larger than zero"))),
-    Bad("zero_water_capacity", scenario(vessel(water_capacity='"0 L"')),
-        "water_capacity", ("0 L", ("larger than zero", "positive", "above zero"))),
-    Bad("zero_fill_mass", scenario(vessel(fill='{ mass = "0 kg" }')),
-        "fill.mass", ("0 kg", ("larger than zero", "positive", "above zero"))),
-    Bad("negative_fill_mass", scenario(vessel(fill='{ mass = "-3 kg" }')),
-        "fill.mass", ("-3 kg", ("negative", "below zero", "larger than zero"))),
-    Bad("fill_pressure_below_vacuum",
+    Bad(
+        "negative_water_capacity",
+        scenario(vessel(water_capacity='"-50 L"')),
+        "water_capacity",
+        ("-50 L", ("negative", "below zero", "larger than zero")),
+    ),
+    Bad(
+        "zero_water_capacity",
+        scenario(vessel(water_capacity='"0 L"')),
+        "water_capacity",
+        ("0 L", ("larger than zero", "positive", "above zero")),
+    ),
+    Bad(
+        "zero_fill_mass",
+        scenario(vessel(fill='{ mass = "0 kg" }')),
+        "fill.mass",
+        ("0 kg", ("larger than zero", "positive", "above zero")),
+    ),
+    Bad(
+        "negative_fill_mass",
+        scenario(vessel(fill='{ mass = "-3 kg" }')),
+        "fill.mass",
+        ("-3 kg", ("negative", "below zero", "larger than zero")),
+    ),
+    Bad(
+        "fill_pressure_below_vacuum",
         scenario(vessel(fill='{ pressure = "-2 barg", temperature = "15 degC" }')),
-        "fill.pressure", ("-2 barg", "vacuum")),
-    Bad("allowable_pressure_below_vacuum",
+        "fill.pressure",
+        ("-2 barg", "vacuum"),
+    ),
+    Bad(
+        "allowable_pressure_below_vacuum",
         scenario(vessel(limits='{ allowable_pressure = "-5 barg" }')),
-        "limits.allowable_pressure", ("vacuum",)),
-    Bad("temperature_below_absolute_zero",
+        "limits.allowable_pressure",
+        ("vacuum",),
+    ),
+    Bad(
+        "temperature_below_absolute_zero",
         scenario(vessel(fill='{ pressure = "150 barg", temperature = "-300 degC" }')),
-        "fill.temperature", ("-300 degC", "absolute zero")),
-    Bad("temperature_below_triple_point_co2",
+        "fill.temperature",
+        ("-300 degC", "absolute zero"),
+    ),
+    Bad(
+        "temperature_below_triple_point_co2",
         scenario(_co2(storage='{ max_temperature = "50 degC", min_temperature = "-80 degC" }')),
-        "storage.min_temperature", ("-80 degC", "triple point", "carbon dioxide", "solid")),
-    Bad("vapour_space_temperature_below_triple_point",
-        scenario(vessel(limits='{ allowable_pressure = "300 barg", min_vapour_space = "5 %", '
-                               'vapour_space_temperature = "-250 degC" }')),
-        "limits.vapour_space_temperature", ("triple point",)),
-    Bad("temperature_above_model_range",
+        "storage.min_temperature",
+        ("-80 degC", "triple point", "carbon dioxide", "solid"),
+    ),
+    Bad(
+        "vapour_space_temperature_below_triple_point",
+        scenario(
+            vessel(
+                limits='{ allowable_pressure = "300 barg", min_vapour_space = "5 %", '
+                'vapour_space_temperature = "-250 degC" }'
+            )
+        ),
+        "limits.vapour_space_temperature",
+        ("triple point",),
+    ),
+    Bad(
+        "temperature_above_model_range",
         scenario(vessel(storage='{ max_temperature = "600 degC" }')),
-        "storage.max_temperature", ("600 degC", ("range", "above"))),
-    Bad("fill_temperature_above_model_range",
+        "storage.max_temperature",
+        ("600 degC", ("range", "above")),
+    ),
+    Bad(
+        "fill_temperature_above_model_range",
         scenario(vessel(fill='{ pressure = "150 barg", temperature = "300 degC" }')),
-        "fill.temperature", ("300 degC", ("range", "above"))),
-    Bad("min_temperature_above_max_temperature",
+        "fill.temperature",
+        ("300 degC", ("range", "above")),
+    ),
+    Bad(
+        "min_temperature_above_max_temperature",
         scenario(vessel(storage='{ max_temperature = "50 degC", min_temperature = "60 degC" }')),
-        ("storage.min_temperature", "storage.max_temperature"), ("60 degC", "maximum")),
-    Bad("count_zero", scenario(vessel(count="0")),
-        "count", (("1 or more", "at least 1", "at least one", "positive"),)),
-    Bad("count_not_whole", scenario(vessel(count="2.5")),
-        "count", ("whole number",)),
-    Bad("min_vapour_space_without_temperature",
+        ("storage.min_temperature", "storage.max_temperature"),
+        ("60 degC", "maximum"),
+    ),
+    Bad(
+        "count_zero",
+        scenario(vessel(count="0")),
+        "count",
+        (("1 or more", "at least 1", "at least one", "positive"),),
+    ),
+    Bad("count_not_whole", scenario(vessel(count="2.5")), "count", ("whole number",)),
+    Bad(
+        "min_vapour_space_without_temperature",
         scenario(vessel(limits='{ allowable_pressure = "300 barg", min_vapour_space = "5 %" }')),
         ("limits.min_vapour_space", "limits.vapour_space_temperature"),
-        ("vapour_space_temperature",)),
-    Bad("min_vapour_space_150_percent",
-        scenario(vessel(limits='{ allowable_pressure = "300 barg", min_vapour_space = "150 %", '
-                               'vapour_space_temperature = "50 degC" }')),
-        "limits.min_vapour_space", ("150 %", ("100 %", "0 to 1", "between 0 and"))),
-    Bad("max_filling_ratio_zero",
-        scenario(vessel(limits='{ allowable_pressure = "300 barg", '
-                               'max_filling_ratio = "0 kg/L" }')),
-        "limits.max_filling_ratio", (("larger than zero", "positive", "above zero"),)),
-    Bad("fill_mass_beyond_what_the_vessel_can_hold",
+        ("vapour_space_temperature",),
+    ),
+    Bad(
+        "min_vapour_space_150_percent",
+        scenario(
+            vessel(
+                limits='{ allowable_pressure = "300 barg", min_vapour_space = "150 %", '
+                'vapour_space_temperature = "50 degC" }'
+            )
+        ),
+        "limits.min_vapour_space",
+        ("150 %", ("100 %", "0 to 1", "between 0 and")),
+    ),
+    Bad(
+        "max_filling_ratio_zero",
+        scenario(
+            vessel(limits='{ allowable_pressure = "300 barg", max_filling_ratio = "0 kg/L" }')
+        ),
+        "limits.max_filling_ratio",
+        (("larger than zero", "positive", "above zero"),),
+    ),
+    Bad(
+        "fill_mass_beyond_what_the_vessel_can_hold",
         # 1000 kg of argon in 50 L is 20 000 kg/m³, far denser than any state the models
         # describe (their co-volume limit is about 2 000 kg/m³): refuse, do not compute.
         scenario(vessel(fill='{ mass = "1000 kg" }')),
-        "fill.mass", ("1000 kg",)),
+        "fill.mass",
+        ("1000 kg",),
+    ),
     # --- gas and model -----------------------------------------------------------------------
-    Bad("unknown_gas_with_suggestion", scenario(vessel(gas='"argn"')),
-        "gas", ("argn", "argon")),
-    Bad("empty_gas_name", scenario(vessel(gas='""')),
-        "gas", (("empty", "no gas"),)),
-    Bad("gas_name_is_a_number", scenario(vessel(gas="18")),
-        "gas", (("name", "gas"),), forbid=("50 L",)),
-    Bad("gas_mixture_not_supported",
-        scenario(vessel(gas='{ argon = 0.82, "carbon dioxide" = 0.18 }')),
-        "gas", ("not supported", "mixture")),
-    Bad("unknown_model_id", scenario(vessel(model='"pengrobinson"')),
-        "model", ("pengrobinson", "pr")),
-    Bad("user_gas_bad_acentric_factor",
+    Bad("unknown_gas_with_suggestion", scenario(vessel(gas='"argn"')), "gas", ("argn", "argon")),
+    Bad("empty_gas_name", scenario(vessel(gas='""')), "gas", (("empty", "no gas"),)),
+    Bad(
+        "gas_name_is_a_number",
+        scenario(vessel(gas="18")),
+        "gas",
+        (("name", "gas"),),
+        forbid=("50 L",),
+    ),
+    Bad(
+        "gas_mixture_fractions_do_not_sum_to_one",
+        scenario(vessel(gas='{ argon = 0.80, "carbon dioxide" = 0.18 }')),
+        "gas",
+        ("0.98", "sum to 1"),
+    ),
+    Bad(
+        "gas_mixture_of_one_gas", scenario(vessel(gas="{ argon = 1.0 }")), "gas", ("at least two",)
+    ),
+    Bad(
+        "gas_mixture_unknown_component",
+        scenario(vessel(gas='{ argon = 0.82, "carbon dioxyde" = 0.18 }')),
+        "gas.carbon dioxyde",
+        ("carbon dioxyde",),
+    ),
+    Bad(
+        "gas_mixture_fraction_without_number",
+        scenario(vessel(gas='{ argon = "most", "carbon dioxide" = 0.18 }')),
+        "gas.argon",
+        ("most",),
+    ),
+    Bad(
+        "gas_mixture_fraction_over_one",
+        scenario(vessel(gas='{ argon = "82", "carbon dioxide" = 0.18 }')),
+        "gas.argon",
+        ("82", "0 to 1"),
+    ),
+    Bad(
+        "gas_mixture_same_gas_twice",
+        scenario(vessel(gas="{ argon = 0.82, Ar = 0.18 }")),
+        "gas.Ar",
+        ("argon", "once"),
+    ),
+    Bad(
+        "gas_mixture_with_user_gas",
+        scenario(vessel(gas="{ testgas = 0.5, argon = 0.5 }"), head=user_gas()),
+        "gas.testgas",
+        ("[[gas]]", "catalog"),
+    ),
+    Bad(
+        "gas_mixture_model_not_for_mixtures",
+        scenario(vessel(gas='{ argon = 0.82, "carbon dioxide" = 0.18 }', model='"srk"')),
+        "model",
+        ("srk", "pr-peneloux"),
+    ),
+    Bad(
+        "composition_basis_without_mixture",
+        scenario(vessel(gas='"argon"', composition_basis='"mass"')),
+        "composition_basis",
+        ("mixture",),
+    ),
+    Bad(
+        "unknown_model_id",
+        scenario(vessel(model='"pengrobinson"')),
+        "model",
+        ("pengrobinson", "pr"),
+    ),
+    Bad(
+        "user_gas_bad_acentric_factor",
         scenario(vessel(gas='"testgas"'), head=user_gas(acentric_factor="5.0")),
-        ("gas[0].acentric_factor", "gas.0.acentric_factor"), ("5.0",), vessel_id=None),
-    Bad("user_gas_acentric_factor_as_text",
+        ("gas[0].acentric_factor", "gas.0.acentric_factor"),
+        ("5.0",),
+        vessel_id=None,
+    ),
+    Bad(
+        "user_gas_acentric_factor_as_text",
         scenario(vessel(gas='"testgas"'), head=user_gas(acentric_factor='"high"')),
-        ("gas[0].acentric_factor", "gas.0.acentric_factor"), ("number",), vessel_id=None),
-    Bad("user_gas_molar_mass_without_per_mol",
+        ("gas[0].acentric_factor", "gas.0.acentric_factor"),
+        ("number",),
+        vessel_id=None,
+    ),
+    Bad(
+        "user_gas_molar_mass_without_per_mol",
         scenario(vessel(gas='"testgas"'), head=user_gas(molar_mass='"39.9 g"')),
-        ("gas[0].molar_mass", "gas.0.molar_mass"), ("g/mol",), vessel_id=None),
-    Bad("user_gas_molar_mass_negative",
+        ("gas[0].molar_mass", "gas.0.molar_mass"),
+        ("g/mol",),
+        vessel_id=None,
+    ),
+    Bad(
+        "user_gas_molar_mass_negative",
         scenario(vessel(gas='"testgas"'), head=user_gas(molar_mass='"-39.9 g/mol"')),
-        ("gas[0].molar_mass", "gas.0.molar_mass"), ("positive",), vessel_id=None),
-    Bad("user_gas_bare_critical_pressure",
-        scenario(vessel(gas='"testgas"'),
-                 head=user_gas().replace('"4.86 MPa(a)"', '"4.86 MPa"')),
-        ("gas[0].critical_pressure", "gas.0.critical_pressure"), ("MPa(a)",), vessel_id=None),
-    Bad("user_gas_unknown_hazard",
+        ("gas[0].molar_mass", "gas.0.molar_mass"),
+        ("positive",),
+        vessel_id=None,
+    ),
+    Bad(
+        "user_gas_bare_critical_pressure",
+        scenario(vessel(gas='"testgas"'), head=user_gas().replace('"4.86 MPa(a)"', '"4.86 MPa"')),
+        ("gas[0].critical_pressure", "gas.0.critical_pressure"),
+        ("MPa(a)",),
+        vessel_id=None,
+    ),
+    Bad(
+        "user_gas_unknown_hazard",
         scenario(vessel(gas='"testgas"'), head=user_gas(hazards='["explosive"]')),
-        ("gas[0].hazards", "gas.0.hazards"), ("explosive", "flammable"), vessel_id=None),
-    Bad("user_gas_missing_acentric_factor",
-        scenario(vessel(gas='"testgas"'),
-                 head=user_gas().replace("acentric_factor = 0.0\n", "")),
-        ("gas[0].acentric_factor", "gas.0.acentric_factor"), ("missing",), vessel_id=None),
-    Bad("user_gas_name_taken_by_catalog",
+        ("gas[0].hazards", "gas.0.hazards"),
+        ("explosive", "flammable"),
+        vessel_id=None,
+    ),
+    Bad(
+        "user_gas_missing_acentric_factor",
+        scenario(vessel(gas='"testgas"'), head=user_gas().replace("acentric_factor = 0.0\n", "")),
+        ("gas[0].acentric_factor", "gas.0.acentric_factor"),
+        ("missing",),
+        vessel_id=None,
+    ),
+    Bad(
+        "user_gas_name_taken_by_catalog",
         scenario(vessel(), head=user_gas().replace('"testgas"', '"argon"')),
-        ("gas[0]", "gas.0"), ("argon", "name"), vessel_id=None),
+        ("gas[0]", "gas.0"),
+        ("argon", "name"),
+        vessel_id=None,
+    ),
     # --- fill specification --------------------------------------------------------------------
-    Bad("missing_fill_specification", scenario(vessel(fill="{}")),
-        "fill", ("exactly one", "pressure", "mass")),
-    Bad("fill_temperature_only",
+    Bad(
+        "missing_fill_specification",
+        scenario(vessel(fill="{}")),
+        "fill",
+        ("exactly one", "pressure", "mass"),
+    ),
+    Bad(
+        "fill_temperature_only",
         scenario(vessel(fill='{ temperature = "15 degC" }')),
-        "fill", ("exactly one",)),
-    Bad("two_fill_specifications",
+        "fill",
+        ("exactly one",),
+    ),
+    Bad(
+        "two_fill_specifications",
         scenario(vessel(fill='{ pressure = "150 barg", mass = "5 kg", temperature = "15 degC" }')),
-        "fill", ("pressure", "mass", "exactly one")),
-    Bad("fill_pressure_without_temperature", scenario(vessel(fill='{ pressure = "150 barg" }')),
-        "fill.temperature", ("required", "degC")),
-    Bad("settled_pressure_without_temperature",
+        "fill",
+        ("pressure", "mass", "exactly one"),
+    ),
+    Bad(
+        "fill_pressure_without_temperature",
+        scenario(vessel(fill='{ pressure = "150 barg" }')),
+        "fill.temperature",
+        ("required", "degC"),
+    ),
+    Bad(
+        "settled_pressure_without_temperature",
         scenario(vessel(fill='{ settled_pressure = "150 barg" }')),
-        "fill.temperature", ("required",)),
-    Bad("fill_is_not_a_table", scenario(vessel(fill='"150 barg"')),
-        "fill", ("table",)),
+        "fill.temperature",
+        ("required",),
+    ),
+    Bad("fill_is_not_a_table", scenario(vessel(fill='"150 barg"')), "fill", ("table",)),
     # --- required keys, unknown keys ----------------------------------------------------------
-    Bad("missing_storage_max_temperature",
+    Bad(
+        "missing_storage_max_temperature",
         scenario(vessel(storage='{ min_temperature = "-10 degC" }')),
-        "storage.max_temperature", (("missing", "required"),)),
-    Bad("missing_limits_allowable_pressure",
+        "storage.max_temperature",
+        (("missing", "required"),),
+    ),
+    Bad(
+        "missing_limits_allowable_pressure",
         scenario(vessel(limits='{ relief_set_pressure = "330 barg" }')),
-        "limits.allowable_pressure", (("missing", "required"),)),
-    Bad("unknown_key_typo_alone",
+        "limits.allowable_pressure",
+        (("missing", "required"),),
+    ),
+    Bad(
+        "unknown_key_typo_alone",
         # the misspelt key is the user's mistake: the sentence must point at it
         scenario(vessel(limits='{ allowable_presure = "300 barg" }')),
-        "allowable_presure", (("spelling", "not a key", "unknown"),)),
-    Bad("unknown_key_typo_beside_the_right_key",
-        scenario(vessel(limits='{ allowable_pressure = "300 barg", '
-                               'allowable_presure = "250 barg" }')),
-        "limits.allowable_presure", (("spelling", "not a key", "unknown"),)),
-    Bad("unknown_top_level_key", scenario(head='titel = "Harrow Lane"'),
-        "titel", (("spelling", "not a key", "unknown"),), vessel_id=None),
-    Bad("vessel_id_missing", scenario(vessel(id=None)),
-        "id", (("missing", "required"),), vessel_id=None),
-    Bad("vessel_id_is_a_boolean", scenario(vessel(id="true")),
-        "id", ("id",), vessel_id=None, forbid=("50 L",)),
-    Bad("duplicate_vessel_ids", scenario(vessel(), vessel()),
-        "id", (("twice", "duplicate", "unique", "own id"),)),
-    Bad("no_vessel_at_all", 'title = "Harrow Lane, empty store"\n',
-        "vessel", (("[[vessel]]", "required", "missing"),), vessel_id=None),
-    Bad("vessel_is_a_table_not_an_array",
+        "allowable_presure",
+        (("spelling", "not a key", "unknown"),),
+    ),
+    Bad(
+        "unknown_key_typo_beside_the_right_key",
+        scenario(
+            vessel(limits='{ allowable_pressure = "300 barg", allowable_presure = "250 barg" }')
+        ),
+        "limits.allowable_presure",
+        (("spelling", "not a key", "unknown"),),
+    ),
+    Bad(
+        "unknown_top_level_key",
+        scenario(head='titel = "Harrow Lane"'),
+        "titel",
+        (("spelling", "not a key", "unknown"),),
+        vessel_id=None,
+    ),
+    Bad(
+        "vessel_id_missing",
+        scenario(vessel(id=None)),
+        "id",
+        (("missing", "required"),),
+        vessel_id=None,
+    ),
+    Bad(
+        "vessel_id_is_a_boolean",
+        scenario(vessel(id="true")),
+        "id",
+        ("id",),
+        vessel_id=None,
+        forbid=("50 L",),
+    ),
+    Bad(
+        "duplicate_vessel_ids",
+        scenario(vessel(), vessel()),
+        "id",
+        (("twice", "duplicate", "unique", "own id"),),
+    ),
+    Bad(
+        "no_vessel_at_all",
+        'title = "Harrow Lane, empty store"\n',
+        "vessel",
+        (("[[vessel]]", "required", "missing"),),
+        vessel_id=None,
+    ),
+    Bad(
+        "vessel_is_a_table_not_an_array",
         scenario().replace("[[vessel]]", "[vessel]"),
-        "vessel", ("[[vessel]]",), vessel_id=None),
+        "vessel",
+        ("[[vessel]]",),
+        vessel_id=None,
+    ),
     # --- the file itself ----------------------------------------------------------------------
-    Bad("malformed_toml_unclosed_quote",
-        scenario(vessel(water_capacity='"50 L')), None, ("TOML", "line"), vessel_id=None),
-    Bad("duplicate_toml_key",
-        scenario(vessel(water_capacity='"50 L"\nwater_capacity = "40 L"')), None, ("TOML",),
-        vessel_id=None),
-    Bad("non_utf8_file",
-        scenario(head='# Lager S\u00fcd').encode("latin-1"), None, ("UTF-8",), vessel_id=None),
+    Bad(
+        "malformed_toml_unclosed_quote",
+        scenario(vessel(water_capacity='"50 L')),
+        None,
+        ("TOML", "line"),
+        vessel_id=None,
+    ),
+    Bad(
+        "duplicate_toml_key",
+        scenario(vessel(water_capacity='"50 L"\nwater_capacity = "40 L"')),
+        None,
+        ("TOML",),
+        vessel_id=None,
+    ),
+    Bad(
+        "non_utf8_file",
+        scenario(head="# Lager S\u00fcd").encode("latin-1"),
+        None,
+        ("UTF-8",),
+        vessel_id=None,
+    ),
     Bad("utf16_file", scenario().encode("utf-16"), None, ("UTF-8",), vessel_id=None),
-    Bad("missing_file", None, None, (("no such file", "not found", "does not exist"),),
-        vessel_id=None, path_kind="missing"),
-    Bad("directory_instead_of_file", None, None, (("folder", "directory"),),
-        vessel_id=None, path_kind="directory"),
+    Bad(
+        "missing_file",
+        None,
+        None,
+        (("no such file", "not found", "does not exist"),),
+        vessel_id=None,
+        path_kind="missing",
+    ),
+    Bad(
+        "directory_instead_of_file",
+        None,
+        None,
+        (("folder", "directory"),),
+        vessel_id=None,
+        path_kind="directory",
+    ),
 ]
 
 SUBPROCESS_CASES = (
@@ -345,13 +623,20 @@ def subprocess_env(**extra: str) -> dict[str, str]:
     return env
 
 
-def run_subprocess(path: Path, *extra: str, env: dict[str, str] | None = None
-                   ) -> subprocess.CompletedProcess[str]:
+def run_subprocess(
+    path: Path, *extra: str, env: dict[str, str] | None = None
+) -> subprocess.CompletedProcess[str]:
     """``python -m fillcheck.cli check PATH`` as a separate process, from the repository root."""
     return subprocess.run(
         [sys.executable, "-m", "fillcheck.cli", "check", str(path), *extra],
-        cwd=REPO, env=env or subprocess_env(), capture_output=True, text=True,
-        encoding="utf-8", errors="replace", timeout=120, check=False,
+        cwd=REPO,
+        env=env or subprocess_env(),
+        capture_output=True,
+        text=True,
+        encoding="utf-8",
+        errors="replace",
+        timeout=120,
+        check=False,
     )
 
 
@@ -464,8 +749,7 @@ def test_windows_line_endings_are_fine(tmp_path: Path) -> None:
 def _listing(root: Path) -> list[tuple[str, int]]:
     """Every path under ``root`` with its size (directories as -1)."""
     return sorted(
-        (str(p.relative_to(root)), -1 if p.is_dir() else p.stat().st_size)
-        for p in root.rglob("*")
+        (str(p.relative_to(root)), -1 if p.is_dir() else p.stat().st_size) for p in root.rglob("*")
     )
 
 
@@ -483,8 +767,13 @@ def test_check_writes_nothing_to_disk(tmp_path: Path) -> None:
     good.write_text(GOOD, encoding="utf-8")
     failing = work / "failing.toml"
     failing.write_text(
-        scenario(vessel(gas='"nitrogen"', fill='{ pressure = "300 barg", temperature = "10 degC" }',
-                        storage='{ max_temperature = "65 degC" }')),
+        scenario(
+            vessel(
+                gas='"nitrogen"',
+                fill='{ pressure = "300 barg", temperature = "10 degC" }',
+                storage='{ max_temperature = "65 degC" }',
+            )
+        ),
         encoding="utf-8",
     )
     bad = work / "bad.toml"

@@ -18,6 +18,7 @@ from fillcheck import units
 from fillcheck.assess.cautions import cautions_for
 from fillcheck.assess.charge import largest_safe_densities
 from fillcheck.assess.findings import vessel_findings
+from fillcheck.assess.mixture_findings import dropout_at_coldest, mixture_findings
 from fillcheck.assess.result import EndState, VesselAssessment
 from fillcheck.assess.uncertainty import pressure_uncertainty
 from fillcheck.scenario.resolve import T_HARD_MAX_K, VesselInput
@@ -26,6 +27,8 @@ from fillcheck.thermo.vessel import VesselPath, saturation_crossing, vessel_path
 
 FINE_STEP_K = 0.5
 """Grid step of a small batch (a scenario file) [K]: fine enough to draw and interpolate."""
+MIXTURE_STEP_K = 2.0
+"""Grid step for a mixture, each of whose states needs a stability test [K]."""
 COARSE_POINTS = 25
 """Points per vessel in a large batch (a register)."""
 SMALL_BATCH = 50
@@ -48,7 +51,7 @@ def fill_densities(vs: Sequence[VesselInput], T_ref: float) -> np.ndarray:
     return rho
 
 
-def _grids(vs: Sequence[VesselInput], T_ref: float, small: bool) -> np.ndarray:
+def _grids(vs: Sequence[VesselInput], T_ref: float, small: bool, step: float) -> np.ndarray:
     lo = np.array(
         [
             v.min_temperature_K
@@ -58,10 +61,7 @@ def _grids(vs: Sequence[VesselInput], T_ref: float, small: bool) -> np.ndarray:
         ]
     )
     hi = np.array([v.max_temperature_K for v in vs])
-    if small:
-        k = int(np.clip(np.ceil((hi - lo).max() / FINE_STEP_K) + 1, 2, 1000))
-    else:
-        k = COARSE_POINTS
+    k = int(np.clip(np.ceil((hi - lo).max() / step) + 1, 2, 1000)) if small else COARSE_POINTS
     return lo[:, None] + (hi - lo)[:, None] * np.linspace(0.0, 1.0, k)[None, :]
 
 
@@ -148,7 +148,8 @@ def _assess_group(
     n = len(vs)
     R, M = f.eos.R, f.molar_mass
     rho = fill_densities(vs, T_ref)
-    TT = _grids(vs, T_ref, small)
+    mixture = getattr(f, "is_mixture", False)
+    TT = _grids(vs, T_ref, small, MIXTURE_STEP_K if mixture else FINE_STEP_K)
     k = TT.shape[1]
     path = vessel_path(f, TT.ravel(), np.repeat(rho, k))
     PP = path.P.reshape(n, k)
@@ -165,7 +166,7 @@ def _assess_group(
     reach_allow = _first_crossing(TT, PP, allow)
     reach_relief = _first_crossing(TT, PP, np.where(np.isnan(relief), np.inf, relief))
     beyond_allow, beyond_relief = _reach_beyond(f, vs, TT, PP, rho, allow, relief, small)
-    if small:
+    if small or mixture:
         crossings = [saturation_crossing(f, float(r)) for r in rho]
     else:
         dew, full = _saturation_table_crossings(f, rho)
@@ -256,6 +257,10 @@ def _assess_group(
         )
         a.saturation_T_K, a.saturation_P_Pa = sat_curve[j]
         a.findings, a.limits_checked = vessel_findings(v, a, p_j, system)
+        if mixture:
+            a.composition = dict(zip(f.component_names, map(float, f.z), strict=True))
+            a.dropout = dropout_at_coldest(f, path, slice(j * k, (j + 1) * k))
+            a.findings += mixture_findings(f, a.dropout, v.notes, system)
         liquid = bool(np.any(np.isin(phase[j], ("two-phase", "liquid"))))
         near = any(x.code == "near-critical" for x in a.findings)
         a.cautions = cautions_for(a.hazards, liquid=liquid, near_critical=near)
@@ -302,14 +307,16 @@ def _validity_text(f: Fluid, system: units.UnitSystem) -> str:
 
 
 def _saturation_curve(f: Fluid, TT: np.ndarray) -> list[tuple[np.ndarray, np.ndarray]]:
-    """Per vessel, the saturation curve over its range widened by 10 K, below Tc [K, Pa]."""
+    """Per vessel, the saturation curve over its range widened by 10 K, below Tc [K, Pa]
+    (for a mixture, its bubble-point curve)."""
     Tc = f.model_critical[0]
     lo = max(f.T_min_saturation, float(TT[:, 0].min()) - 10.0)
     hi = min(Tc - 1e-3, float(TT[:, -1].max()) + 10.0)
     if hi <= lo:
         return [(np.zeros(0), np.zeros(0))] * len(TT)
-    T = np.linspace(lo, hi, 80)
+    T = np.linspace(lo, hi, 20 if getattr(f, "is_mixture", False) else 80)
     P = f.saturation_molar(T).P
+    T, P = T[np.isfinite(P)], P[np.isfinite(P)]  # a mixture: only where a band was found
     out = []
     for row in TT:
         m = (T >= row[0] - 10.0) & (T <= row[-1] + 10.0)

@@ -72,7 +72,8 @@ def largest_safe_densities(
     below = T_max < fluid.model_critical[0]
     if np.any(below):
         r = inf.copy()
-        r[below] = fluid.saturation_molar(T_max[below]).rho_liquid * (1.0 - _liquid_u(fluid))
+        rl = fluid.saturation_molar(T_max[below]).rho_liquid  # NaN: a mixture with no band
+        r[below] = np.nan_to_num(rl, nan=np.inf) * (1.0 - _liquid_u(fluid))
         cands.append((r, "liquid-full at the highest storage temperature (built in)"))
     fr = (
         np.array(
@@ -100,7 +101,9 @@ def largest_safe_densities(
             sat = fluid.saturation_molar(Tv[below])
             r[below] = sat.rho_vapor + (1.0 - frac[below]) * (sat.rho_liquid - sat.rho_vapor)
         # above Tc there is no vapour space to keep: stay (strictly) below the critical density
+        # (also where a mixture has no two-phase band at T_v)
         r[has & ~below] = rhoc * (1.0 - 1e-9)
+        r[has] = np.where(np.isnan(r[has]), rhoc * (1.0 - 1e-9), r[has])
         cands.append((r, "minimum vapour space"))
     for j, v in enumerate(vs):
         if v.rules is None:

@@ -122,7 +122,17 @@ def read_gauge(v: VesselInput, T_ref: float, P_Pa: float, T_K: float) -> Reading
         )
     rho = float(f.density_molar(np.array([T_K]), np.array([P_Pa]))[0])
     Tc = f.model_critical[0]
-    if T_K - READING_T_UNCERTAINTY_K < Tc:
+    if getattr(f, "is_mixture", False) and T_K - READING_T_UNCERTAINTY_K < Tc:
+        dT, dP = READING_T_UNCERTAINTY_K, 0.05
+        TT = np.array([T_K, T_K - dT, T_K + dT, T_K, T_K])
+        PP = np.array([P_Pa, P_Pa, P_Pa, P_Pa * (1 - dP), P_Pa * (1 + dP)])
+        if np.any(f.two_phase_at(TT, PP)):
+            raise InputError(
+                f"vessel '{v.id}': at this reading {f.name} may hold liquid (within "
+                f"{READING_T_UNCERTAINTY_K:.0f} K of the gas temperature and 5 % of gauge "
+                "error), so its pressure does not tell the charge; weigh it"
+            )
+    elif T_K - READING_T_UNCERTAINTY_K < Tc:
         Ts = np.clip(
             np.array([T_K - READING_T_UNCERTAINTY_K, T_K + READING_T_UNCERTAINTY_K]),
             f.T_min_saturation,

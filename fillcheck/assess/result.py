@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Literal
+from typing import Any, Literal
 
 import numpy as np
 
@@ -92,6 +92,11 @@ class VesselAssessment:
     """The saturation curve near the storage range, for the chart (empty above Tc)."""
     findings: list[Finding] = field(default_factory=list)
     cautions: list[str] = field(default_factory=list)
+    composition: dict[str, float] | None = None
+    """A mixture's mole fractions by component (None for a pure gas) [-]."""
+    dropout: Any = None
+    """A mixture's liquid dropout at the coldest two-phase state of the range
+    (assess.mixture_findings.Dropout), or None."""
 
     @property
     def margin_to_allowable(self) -> float:

@@ -64,6 +64,8 @@ def publication(source: str) -> str:
 def entered_rows(v: VesselAssessment) -> list[tuple[str, str]]:
     """The user's inputs in their own units, then the model and its sources."""
     rows = [(label, v.entered[key]) for key, label in ENTERED_LABELS.items() if key in v.entered]
+    if v.composition is not None:
+        rows.insert(0, ("composition (mole)", v.gas.removesuffix(" (mol)")))
     rows.append(("model", f"{v.model_name} ({v.model}); {'; '.join(v.model_references)}"))
     rows.append(("model range", v.model_validity))
     rows.append(("gas data", publication(v.data_sources.get("critical", "—"))))

@@ -58,6 +58,16 @@ def vessel_dict(v: VesselAssessment) -> dict[str, Any]:
             {"code": f.code, "severity": f.severity, "message": f.message} for f in v.findings
         ],
         "cautions": v.cautions,
+        "composition": v.composition,
+        "liquid_dropout": None
+        if v.dropout is None
+        else {
+            "temperature_K": v.dropout.temperature_K,
+            "liquid_mole_fractions": v.dropout.liquid_x,
+            "vapour_mole_fractions": v.dropout.vapour_y,
+            "liquid_volume_fraction": v.dropout.liquid_volume_fraction,
+            "condensing_component": v.dropout.condensing,
+        },
     }
 
 

@@ -25,6 +25,7 @@ from fillcheck.fluids.catalog import FluidData, lookup, user_fluid
 from fillcheck.models.registry import has_reference_equation
 from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
 from fillcheck.thermo.fluid import Fluid
+from fillcheck.thermo.mixture_fluid import FRACTION_SUM_TOLERANCE, MixtureFluid
 
 T_HARD_MAX_K = 500.0
 """Temperatures above this are refused outright: no catalog constant or correlation in
@@ -77,6 +78,9 @@ class VesselInput:
     """For gauge pressures on the report [Pa]."""
     rules: Rules | None = None
     """An example rule set the user named, or None."""
+    notes: tuple[str, ...] = ()
+    """Notes on how the input was read (a mixture's composition normalised, volume % read as
+    mole %), shown on the report."""
 
 
 @dataclass(frozen=True)
@@ -141,7 +145,7 @@ def scenario_from_dict(
     user_gases = _user_gases(spec.gas, where)
     seen: set[str] = set()
     vessels = []
-    fluids: dict[tuple[str, bool, str | None], Fluid] = {}  # one Fluid per gas and model
+    fluids: dict[Any, Any] = {}  # one Fluid per gas (or composition) and model
     for i, v in enumerate(spec.vessel):
         vid = str(v.id)
         if not vid.strip():
@@ -258,13 +262,15 @@ def _fluid_for(
     v: VesselSpec,
     where: _Where,
     user_gases: dict[str, FluidData],
-    fluids: dict[tuple[str, bool, str | None], Fluid],
-) -> tuple[Fluid, str | None]:
+    fluids: dict[Any, Any],
+) -> tuple[Fluid | MixtureFluid, str | None, tuple[str, ...]]:
     if isinstance(v.gas, dict):
+        return _mixture_for(v, where, user_gases, fluids)
+    if v.composition_basis is not None:
         raise where.fail(
-            "gas",
-            "gas mixtures are not supported by this version of fillcheck; "
-            'give one gas by name, e.g. gas = "argon"',
+            "composition_basis",
+            "goes with a mixture only; remove it, or give the gas as a mixture, e.g. "
+            'gas = { argon = 0.82, "carbon dioxide" = 0.18 }',
         )
     key = v.gas.strip().casefold()
     try:
@@ -286,7 +292,72 @@ def _fluid_for(
             fluids[key3] = Fluid(data, model)
         except InputError as exc:
             raise where.fail("model", str(exc)) from None
-    return fluids[key3], note
+    return fluids[key3], note, ()
+
+
+def _mixture_for(
+    v: VesselSpec, where: _Where, user_gases: dict[str, FluidData], fluids: dict[Any, Any]
+) -> tuple[MixtureFluid, str | None, tuple[str, ...]]:
+    """A mixture from a gas table: names to fractions, on the mole, mass or volume basis."""
+    assert isinstance(v.gas, dict)
+    basis = v.composition_basis or "mole"
+    example = 'e.g. gas = { argon = 0.82, "carbon dioxide" = 0.18 }'
+    if len(v.gas) < 2:
+        raise where.fail("gas", f"a mixture needs at least two gases; {example}")
+    datas: list[FluidData] = []
+    fractions: list[float] = []
+    for name, value in v.gas.items():
+        field = f"gas.{name}"
+        if name.strip().casefold() in user_gases:
+            raise where.fail(
+                field,
+                "a gas defined in a [[gas]] table cannot be part of a mixture (only catalog "
+                "gases have mixture parameters); mix catalog gases only",
+            )
+        try:
+            data = lookup(name)
+        except InputError as exc:
+            raise where.fail(field, str(exc)) from None
+        if data in datas:
+            raise where.fail(field, f"names {data.name} a second time; list each gas once")
+        x = where.run(field, units.parse_fraction, value)
+        if x <= 0.0:
+            raise where.fail(field, f"'{value}' must be larger than zero; leave the gas out")
+        datas.append(data)
+        fractions.append(x)
+    total = sum(fractions)
+    notes: list[str] = []
+    if abs(total - 1.0) > FRACTION_SUM_TOLERANCE:
+        raise where.fail(
+            "gas",
+            f"the fractions sum to {total:.6g} ({100 * total:.4g} %); they must sum to 1 "
+            "(100 %) within 0.1 %",
+        )
+    if abs(total - 1.0) > 1e-9:
+        notes.append(
+            f"the {basis} fractions summed to {100 * total:.4g} % and were scaled to 100 %"
+        )
+    z = np.array(fractions) / total
+    if basis == "mass":
+        z = z / np.array([d.molar_mass_kg_mol for d in datas])
+        z = z / z.sum()
+    elif basis == "volume":
+        notes.append(
+            "volume % of a gas mixture is read as mole % (exact for ideal gases; the usual "
+            "convention for gas-mixture certificates)"
+        )
+    model_note = None
+    model = v.model
+    key = (tuple(d.name for d in datas), tuple(np.round(z, 12)), model)
+    if key not in fluids:
+        try:
+            fluids[key] = MixtureFluid(datas, z, model)
+        except InputError as exc:
+            if model != "reference":
+                raise where.fail("model", str(exc)) from None
+            fluids[key] = MixtureFluid(datas, z, None)
+            model_note = f"model 'reference' was asked for, but {exc}; {fluids[key].model} used"
+    return fluids[key], model_note, tuple(notes)
 
 
 def _vessel(
@@ -294,9 +365,9 @@ def _vessel(
     where: _Where,
     P_atm: float,
     user_gases: dict[str, FluidData],
-    fluids: dict[tuple[str, bool, str | None], Fluid],
+    fluids: dict[Any, Any],
 ) -> VesselInput:
-    fluid, note = _fluid_for(v, where, user_gases, fluids)
+    fluid, note, notes = _fluid_for(v, where, user_gases, fluids)
     entered: dict[str, str] = {"water_capacity": v.water_capacity}
     V = where.run("water_capacity", units.parse_volume, v.water_capacity)
     if V <= 0:
@@ -382,6 +453,7 @@ def _vessel(
         entered,
         P_atm,
         rules,
+        notes,
     )
 
 
@@ -396,6 +468,21 @@ def _refuse_liquefied_pressure_fill(
     """Refuse a fill by pressure where the gas would be liquid at that pressure."""
     Tc = fluid.model_critical[0]
     if T is None or T >= Tc:
+        return
+    if isinstance(fluid, MixtureFluid):
+        # a mixture has no single vapour pressure: refuse where liquid would be present at a
+        # pressure 2 % higher (the same band as for a pure gas)
+        P_up = np.array([P / LIQUEFIED_BAND])
+        rho = fluid.density_molar(np.array([T]), P_up)
+        phase = str(fluid.vessel_path(np.array([T]), rho).phase[0])
+        if phase in ("two-phase", "liquid"):
+            raise where.fail(
+                "fill." + kind,
+                f"'{text}' lies where {fluid.name} holds liquid at the fill temperature (within "
+                f"{1 - LIQUEFIED_BAND:.0%} of the pressure at which liquid forms): there the "
+                "pressure does not tell the charge; give fill.mass (weigh the fill) or "
+                "fill.filling_ratio instead",
+            )
         return
     Psat = float(fluid.saturation_molar(np.array([T])).P[0])
     if P >= LIQUEFIED_BAND * Psat:

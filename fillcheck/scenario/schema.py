@@ -73,7 +73,7 @@ class VesselSpec(_Strict):
 
     id: StrictStr | StrictInt
     gas: StrictStr | dict[str, StrictFloat | StrictInt | StrictStr]
-    composition_basis: Literal["mole", "mass"] | None = None
+    composition_basis: Literal["mole", "mass", "volume"] | None = None
     water_capacity: Quantity
     model: StrictStr | None = None
     count: StrictInt = 1

@@ -57,8 +57,11 @@ def vessel_path(fluid: Fluid, T: FloatArray, rho_mol: FloatArray) -> VesselPath:
     """States of a closed vessel at temperatures T [K] and molar density ρ [mol/m³].
 
     T and ρ broadcast together, so one density at many temperatures (a storage range) and
-    many densities at one temperature (a register) are both one call.
+    many densities at one temperature (a register) are both one call. A mixture follows its
+    own fixed-volume phase split (:mod:`fillcheck.thermo.mixture_vessel`).
     """
+    if getattr(fluid, "is_mixture", False):
+        return fluid.vessel_path(T, rho_mol)
     T, rho = np.broadcast_arrays(np.asarray(T, dtype=float), np.asarray(rho_mol, dtype=float))
     T, rho = T.astype(float).ravel(), rho.astype(float).ravel()
     if np.any(rho >= fluid.eos.max_density_mol()) or np.any(rho <= 0.0):
@@ -123,8 +126,11 @@ def saturation_crossing(fluid: Fluid, rho_mol: float) -> tuple[SaturationCrossin
 
     The saturated density is monotone in temperature and, near the critical point, close to
     linear in √(Tc − T); the root is found by the Illinois variant of regula falsi in
-    s = √(Tc − T), which converges superlinearly and cannot leave its bracket.
+    s = √(Tc − T), which converges superlinearly and cannot leave its bracket. A mixture finds
+    where its isochore leaves the two-phase region by its own stability test.
     """
+    if getattr(fluid, "is_mixture", False):
+        return fluid.saturation_crossing(rho_mol)
     Tc, _, rhoc = fluid.model_critical
     T_min = fluid.T_min_saturation
     kind: SaturationCrossing = "dew" if rho_mol < rhoc else "liquid-full"

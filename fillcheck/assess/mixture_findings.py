@@ -1,0 +1,93 @@
+"""What only a mixture adds to the findings: liquid dropout, interaction parameters, notes.
+
+A mixture cooled into its two-phase region drops a liquid richer in its heavier components, so
+the gas drawn off from the top of the vessel is leaner in them than the label says, and richer
+again as the liquid evaporates. The finding names the component that condenses (the one whose
+share in the liquid most exceeds its share in the vessel) and gives the compositions of both
+phases at the coldest two-phase state of the storage range.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import TYPE_CHECKING
+
+import numpy as np
+
+from fillcheck import units
+from fillcheck.assess.result import Finding
+
+if TYPE_CHECKING:
+    from fillcheck.thermo.mixture_fluid import MixtureFluid
+    from fillcheck.thermo.mixture_vessel import MixtureVesselPath
+
+
+@dataclass(frozen=True)
+class Dropout:
+    """The two phases at the coldest two-phase state of a vessel's range.
+
+    temperature_K [K]; liquid_x, vapour_y: mole fractions by component name [-];
+    liquid_volume_fraction: the share of the vessel the liquid takes [-];
+    condensing: the component most enriched in the liquid.
+    """
+
+    temperature_K: float
+    liquid_x: dict[str, float]
+    vapour_y: dict[str, float]
+    liquid_volume_fraction: float
+    condensing: str
+
+
+def dropout_at_coldest(f: MixtureFluid, path: MixtureVesselPath, rows: slice) -> Dropout | None:
+    """The dropout of one vessel, from the rows of a batched path (None if never two-phase)."""
+    phase = path.phase[rows]
+    two = np.flatnonzero(phase == "two-phase")
+    if two.size == 0:
+        return None
+    i = np.arange(path.T.size)[rows][two[np.argmin(path.T[rows][two])]]
+    x, y = path.liquid_x[i], path.vapour_y[i]
+    rho, rl, rv = path.rho_mol[i], path.rho_liquid[i], path.rho_vapor[i]
+    names = f.component_names
+    return Dropout(
+        temperature_K=float(path.T[i]),
+        liquid_x=dict(zip(names, map(float, x), strict=True)),
+        vapour_y=dict(zip(names, map(float, y), strict=True)),
+        liquid_volume_fraction=float((rho - rv) / (rl - rv)),
+        condensing=names[int(np.argmax(x / f.z))],
+    )
+
+
+def _composition(c: dict[str, float]) -> str:
+    return " + ".join(f"{name} {100.0 * v:.3g} %" for name, v in c.items())
+
+
+def mixture_findings(
+    f: MixtureFluid, dropout: Dropout | None, notes: tuple[str, ...], system: units.UnitSystem
+) -> list[Finding]:
+    """The findings a mixture adds to those of every vessel."""
+    out: list[Finding] = []
+    if f.model != "reference" and f.kij_missing:
+        out.append(
+            Finding(
+                "interaction-unknown",
+                "review",
+                f"no published binary interaction parameter for {', '.join(f.kij_missing)}: "
+                f"the {f.model} model used kij = 0 there, and the phase behaviour and density "
+                "of the mixture are estimates",
+            )
+        )
+    if dropout is not None:
+        t = units.format_temperature(dropout.temperature_K, system)
+        out.append(
+            Finding(
+                "liquid-dropout",
+                "warning",
+                f"at {t} the mixture splits: a liquid rich in {dropout.condensing} takes "
+                f"{dropout.liquid_volume_fraction:.1%} of the vessel (liquid "
+                f"{_composition(dropout.liquid_x)}), and the gas drawn off is "
+                f"{_composition(dropout.vapour_y)}, not the composition on the label; warm "
+                "the vessel and roll or wait before use so the liquid re-mixes",
+            )
+        )
+    out.extend(Finding("composition-note", "info", n) for n in notes)
+    return out

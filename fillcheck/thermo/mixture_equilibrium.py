@@ -1,0 +1,553 @@
+"""Phase equilibrium of mixtures for any mixture model: density, fugacity, stability, splits.
+
+Everything is vectorised over a batch of m states (T, P or ρ of shape (m,), compositions of
+shape (m, n)); the iterations run in lockstep with masks, so a storage range or a register is one
+call. The methods are the standard ones of Michelsen, Mollerup (2007), *Thermodynamic Models:
+Fundamentals & Computational Aspects*, 2nd ed., Tie-Line Publications:
+
+- density at (T, P, x): the model's closed-form cubic roots where it has them, else Newton in
+  ln ρ from a vapour-like and a liquid-like start (the starts from a Peng–Robinson "starter"
+  model of the same components); of two roots the one with the lower Gibbs energy,
+  gʳ/RT = αʳ + Z − 1 − ln Z, is stable (ch. 3);
+- ln φᵢ = αʳ + n(∂αʳ/∂nᵢ) − ln Z (ch. 2);
+- stability by the tangent-plane distance (Michelsen (1982), Fluid Phase Equilib. 9, 1):
+  successive substitution ln Wᵢ ← ln zᵢ + ln φᵢ(z) − ln φᵢ(w) from Wilson K-factor starts in both
+  directions and from near-pure trial phases, unstable where tm = 1 + Σ Wᵢ(ln Wᵢ + ln φᵢ(w) −
+  dᵢ − 1) < 0;
+- the split at (T, P): Rachford–Rice (1952) with successive substitution of the K-factors
+  (ch. 10), the negative flash of Whitson, Michelsen (1989), Fluid Phase Equilib. 53, 51;
+- the split of a closed vessel at (T, ρ): the pressure at which the (T, P) split's molar volume
+  equals the vessel's, by the Illinois variant of regula falsi in ln P (the volume of the
+  equilibrium system falls monotonically with pressure at fixed T and overall composition).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+from fillcheck.errors import ConvergenceError
+from fillcheck.models.base import FloatArray
+from fillcheck.models.mixture_base import MixtureModel
+
+TRIVIAL_TOL = 1e-8
+"""Squared distance Σ(wᵢ − zᵢ)² below which a trial phase is the feed itself."""
+TM_UNSTABLE = -1e-9
+"""A tangent-plane distance below this marks the state unstable [-]."""
+LNK_MAX = 50.0
+"""Bound on |ln K| in the iterations (a component absent from a phase to e⁻⁵⁰) [-]."""
+
+
+@dataclass(frozen=True)
+class Components:
+    """What the starting values need of each component: Tc [K], Pc [Pa], ω [-]."""
+
+    Tc: np.ndarray
+    Pc: np.ndarray
+    omega: np.ndarray
+
+    def ln_wilson_k(self, T: FloatArray, P: FloatArray) -> FloatArray:
+        """ln of Wilson's K-factor estimate, shape (m, n) (Wilson (1968), AIChE Meeting)."""
+        T, P = np.asarray(T)[..., None], np.asarray(P)[..., None]
+        return np.log(self.Pc / P) + 5.373 * (1.0 + self.omega) * (1.0 - self.Tc / T)
+
+
+# --- one phase -----------------------------------------------------------------------------
+def ln_phi(model: MixtureModel, T: FloatArray, rho: FloatArray, x: FloatArray) -> FloatArray:
+    """ln φᵢ at T [K], ρ [mol/m³], x [-], shape (m, n)."""
+    d = model.alphar(T, rho, x)
+    return (d.a00 - np.log1p(d.a01))[..., None] + model.dalphar_dn(T, rho, x)
+
+
+def pressure(model: MixtureModel, T: FloatArray, rho: FloatArray, x: FloatArray) -> FloatArray:
+    """P(T, ρ, x) [Pa]."""
+    return rho * model.R * T * (1.0 + model.alphar(T, rho, x).a01)
+
+
+def _gibbs_residual(model: MixtureModel, T, rho, x) -> FloatArray:
+    d = model.alphar(T, rho, x)
+    Z = 1.0 + d.a01
+    return d.a00 + Z - 1.0 - np.log(Z)
+
+
+def _newton_density(model: MixtureModel, T, P, x, rho0, liquid: bool) -> FloatArray:
+    """One root of P(T, ρ, x) = P by Newton's method from its outer side [mol/m³].
+
+    On the rising vapour branch P(ρ) is concave, so Newton steps in ρ from below (P(ρ) < P)
+    climb to the lowest root without passing it; on the rising liquid branch P is convex (in
+    ln ρ too), so steps in ln ρ from above descend to the highest root. Starting on the outer
+    side keeps the iteration away from the extra loops a multiparameter equation may have
+    inside the two-phase region. A step landing where (∂P/∂ρ)_T ≤ 0 means the branch has no
+    root (the vapour branch of a compressed liquid, say): NaN there. Only the states not yet
+    converged are evaluated at each step.
+    """
+    T, P = np.broadcast_arrays(np.asarray(T, dtype=float), np.asarray(P, dtype=float))
+    T, P = T.ravel(), P.ravel()
+    x = np.asarray(x, dtype=float).reshape(T.size, -1)
+    top = 0.999 * model.max_density_mol(x)
+    sign = 1.0 if liquid else -1.0  # sign·f ≥ 0 on the outer side of the root
+
+    def evaluate(idx: np.ndarray, rho: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        d = model.alphar(T[idx], rho, x[idx])
+        RT = model.R * T[idx]
+        return rho * RT * (1.0 + d.a01) - P[idx], RT * (1.0 + 2.0 * d.a01 + d.a02)
+
+    rho = np.minimum(np.asarray(rho0, dtype=float).ravel() * np.ones(T.size), top)
+    out = np.full(T.size, np.nan)
+    act = np.arange(T.size)
+    for _ in range(40):  # a start on the outer side, on a rising part of the isotherm
+        f, slope = evaluate(act, rho[act])
+        bad = ~((sign * f >= 0.0) & (slope > 0.0))
+        if not np.any(bad):
+            break
+        rho[act[bad]] = np.minimum(rho[act[bad]] * (1.1 if liquid else 0.5), top[act[bad]])
+    for _ in range(60):
+        done = np.abs(f) <= 1e-10 * P[act]
+        out[act[done]] = rho[act[done]]
+        lost = (slope <= 0.0) | (sign * f < 0.0)
+        keep = ~done & ~lost
+        act, f, slope = act[keep], f[keep], slope[keep]
+        if act.size == 0:
+            break
+        r = rho[act]
+        if liquid:
+            new = r * np.exp(np.maximum(-f / (r * slope), -0.5))
+        else:
+            new = np.minimum(r - f / slope, 4.0 * r)
+        rho[act] = np.minimum(new, top[act])
+        f, slope = evaluate(act, rho[act])
+        # round-off at the root may put the last iterate a hair past it
+        f = np.where(np.abs(f) <= 1e-10 * P[act], 0.0, f)
+    return out
+
+
+def density_roots(
+    model: MixtureModel,
+    T: FloatArray,
+    P: FloatArray,
+    x: FloatArray,
+    starter: Any = None,
+    strict: bool = True,
+    guess: tuple[FloatArray, FloatArray] | None = None,
+) -> tuple[FloatArray, FloatArray]:
+    """Vapour-like and liquid-like densities at (T, P, x) [mol/m³]; equal where one root.
+
+    ``starter`` is a model with closed-form ``density_roots(T, P, x)`` (a cubic of the same
+    components) whose roots start the Newton iterations of a model without them; ``guess``
+    (vapour, liquid; NaN where unknown), the roots of a nearby state, start them closer. Where
+    no root is found, ConvergenceError is raised, or NaN returned when not ``strict`` (for
+    trial phases, which may be far outside any state a vessel reaches).
+    """
+    if hasattr(model, "density_roots"):
+        return model.density_roots(T, P, x)
+    if starter is not None:
+        v0, l0 = starter.density_roots(T, P, x)
+    else:
+        _, rho_r = model.reducing(x)
+        v0, l0 = P / (model.R * T), 2.8 * rho_r
+    v0 = 0.5 * np.minimum(v0, P / (model.R * T))
+    l0 = 1.15 * l0  # Peng–Robinson liquids are up to ~10 % too light
+    if guess is not None:
+        v0 = np.where(np.isfinite(guess[0]), guess[0], v0)
+        l0 = np.where(np.isfinite(guess[1]), guess[1], l0)
+    rv = _newton_density(model, T, P, x, v0, liquid=False)
+    rl = _newton_density(model, T, P, x, l0, liquid=True)
+    rv = np.where(np.isnan(rv), rl, rv)
+    rl = np.where(np.isnan(rl), rv, rl)
+    if strict and np.any(np.isnan(rv)):
+        i = int(np.flatnonzero(np.isnan(rv))[0])
+        raise ConvergenceError(
+            f"{model.info.name}: no density at T = {np.ravel(T)[i]:.6g} K, "
+            f"P = {np.ravel(P)[i]:.6g} Pa"
+        )
+    return rv, rl
+
+
+def stable_density(
+    model: MixtureModel,
+    T: FloatArray,
+    P: FloatArray,
+    x: FloatArray,
+    starter: Any = None,
+    strict: bool = True,
+) -> FloatArray:
+    """The density of lowest Gibbs energy at (T, P, x) [mol/m³] (NaN where none is found and
+    not ``strict``)."""
+    return _stable_pair(model, T, P, x, starter, strict)[0]
+
+
+def _stable_pair(model, T, P, x, starter, strict, guess=None):
+    """The stable density and both roots (for warm starts)."""
+    rv, rl = density_roots(model, T, P, x, starter, strict, guess)
+    with np.errstate(invalid="ignore"):
+        gv = _gibbs_residual(model, T, np.nan_to_num(rv, nan=1.0), x)
+        gl = _gibbs_residual(model, T, np.nan_to_num(rl, nan=1.0), x)
+    return np.where(gl < gv, rl, rv), rv, rl
+
+
+# --- stability -----------------------------------------------------------------------------
+@dataclass(frozen=True)
+class Stability:
+    """Result of a stability test of m states.
+
+    unstable : whether a second phase lowers the Gibbs energy
+    tm : the smallest tangent-plane distance found [-]
+    w : the composition of that trial phase, shape (m, n) [-]
+    rho_trial : its density [mol/m³]
+    """
+
+    unstable: np.ndarray
+    tm: np.ndarray
+    w: np.ndarray
+    rho_trial: np.ndarray
+
+
+def stability(
+    model: MixtureModel,
+    T: FloatArray,
+    P: FloatArray,
+    z: FloatArray,
+    rho_z: FloatArray,
+    comps: Components,
+    starter: Any = None,
+    max_iter: int = 100,
+) -> Stability:
+    """Tangent-plane stability test of feeds z at density ρ_z [mol/m³] and its pressure P [Pa]
+    (module docstring). A trial phase of the feed's own composition at another density counts:
+    it finds a homogeneous state that is metastable."""
+    T, P = np.asarray(T, dtype=float), np.asarray(P, dtype=float)
+    m, n = z.shape
+    d = np.log(z) + ln_phi(model, T, rho_z, z)
+    lnK = comps.ln_wilson_k(T, P)
+    trials = [np.log(z) + lnK, np.log(z) - lnK]
+    for j in range(n):
+        pure = np.full((m, n), np.log(1e-3 / max(n - 1, 1)))
+        pure[:, j] = np.log(0.999)
+        trials.append(pure)
+    t = len(trials)
+    lnW = np.concatenate(trials)  # (t·m, n)
+    TT, PP, dd, zz = np.tile(T, t), np.tile(P, t), np.tile(d, (t, 1)), np.tile(z, (t, 1))
+    rr = np.tile(np.asarray(rho_z, dtype=float), t)
+    active = np.ones(t * m, dtype=bool)
+    tm = np.zeros(t * m)
+    rho_w = np.zeros(t * m)
+    g_v, g_l = np.full(t * m, np.nan), np.full(t * m, np.nan)
+    for _ in range(max_iter):
+        a = np.flatnonzero(active)
+        if a.size == 0:
+            break
+        lnW[a] = np.minimum(lnW[a], 50.0)
+        W = np.exp(lnW[a])
+        w = W / W.sum(axis=1, keepdims=True)
+        rho, g_v[a], g_l[a] = _stable_pair(model, TT[a], PP[a], w, starter, False, (g_v[a], g_l[a]))
+        lost = np.isnan(rho)
+        rho = np.where(lost, rr[a], rho)
+        lp = np.where(lost[:, None], 0.0, ln_phi(model, TT[a], rho, w))
+        tm[a] = 1.0 + np.sum(W * (lnW[a] + lp - dd[a] - 1.0), axis=1)
+        rho_w[a] = rho
+        new = dd[a] - lp
+        change = np.max(np.abs(new - lnW[a]), axis=1)
+        lnW[a] = new
+        trivial = (np.sum((w - zz[a]) ** 2, axis=1) < TRIVIAL_TOL) & (
+            np.abs(rho / rr[a] - 1.0) < 1e-6
+        )
+        stop = (change < 1e-8) | (tm[a] < -1e-4) | trivial | lost
+        tm[a] = np.where((trivial & (tm[a] > TM_UNSTABLE)) | lost, 0.0, tm[a])
+        active[a[stop]] = False
+    tm_all = tm.reshape(t, m)
+    best = np.argmin(tm_all, axis=0)
+    rows = best * m + np.arange(m)
+    W = np.exp(np.minimum(lnW[rows], 50.0))
+    return Stability(
+        unstable=tm_all[best, np.arange(m)] < TM_UNSTABLE,
+        tm=tm_all[best, np.arange(m)],
+        w=W / W.sum(axis=1, keepdims=True),
+        rho_trial=rho_w[rows],
+    )
+
+
+# --- splits --------------------------------------------------------------------------------
+def rachford_rice(z: FloatArray, K: FloatArray) -> FloatArray:
+    """Vapour fraction β solving Σ zᵢ(Kᵢ − 1)/(1 + β(Kᵢ − 1)) = 0, negative flash allowed [-].
+
+    Bisection safeguarded Newton inside the window between the asymptotes
+    1/(1 − K_max) < β < 1/(1 − K_min).
+    """
+    km1 = K - 1.0
+    kmax, kmin = K.max(axis=1), K.min(axis=1)
+    with np.errstate(divide="ignore"):
+        lo = np.where(kmax > 1.0, 1.0 / (1.0 - kmax), -1e6) + 1e-12
+        hi = np.where(kmin < 1.0, 1.0 / (1.0 - kmin), 1e6) - 1e-12
+    beta = np.clip(0.5, lo, hi)
+    for _ in range(100):
+        den = 1.0 + beta[:, None] * km1
+        g = np.sum(z * km1 / den, axis=1)
+        dg = -np.sum(z * km1**2 / den**2, axis=1)
+        lo = np.where(g > 0.0, beta, lo)
+        hi = np.where(g < 0.0, beta, hi)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            nb = beta - g / dg
+        nb = np.where((nb > lo) & (nb < hi) & np.isfinite(nb), nb, 0.5 * (lo + hi))
+        if np.all(np.abs(nb - beta) < 1e-14 * np.maximum(1.0, np.abs(beta))):
+            beta = nb
+            break
+        beta = nb
+    return beta
+
+
+@dataclass(frozen=True)
+class Split:
+    """Two coexisting phases of m states.
+
+    P : pressure [Pa];  beta : vapour mole fraction [-] (between 0 and 1 in a true split)
+    x, y : liquid and vapour compositions (m, n) [-];  rho_liquid, rho_vapor [mol/m³]
+    """
+
+    P: np.ndarray
+    beta: np.ndarray
+    x: np.ndarray
+    y: np.ndarray
+    rho_liquid: np.ndarray
+    rho_vapor: np.ndarray
+
+
+def flash_TP(
+    model: MixtureModel,
+    T: FloatArray,
+    P: FloatArray,
+    z: FloatArray,
+    lnK: FloatArray,
+    starter: Any = None,
+    max_iter: int = 200,
+) -> tuple[Split, np.ndarray]:
+    """The (T, P) split from starting ln K by successive substitution; also a mask of the
+    states where it converged to two distinct phases."""
+    lnK = np.clip(np.nan_to_num(np.array(lnK, dtype=float), nan=0.0), -LNK_MAX, LNK_MAX)
+    m = z.shape[0]
+    conv = np.zeros(m, dtype=bool)
+    for _ in range(max_iter):
+        s = _split_state(model, T, z, lnK, np.log(P), starter)
+        lost = np.isnan(s.rho_liquid) | np.isnan(s.rho_vapor)
+        rl = np.where(lost, 1.0, s.rho_liquid)
+        rv = np.where(lost, 1.0, s.rho_vapor)
+        new = ln_phi(model, T, rl, s.x) - ln_phi(model, T, rv, s.y)
+        new = np.where(lost[:, None], 0.0, np.clip(new, -LNK_MAX, LNK_MAX))
+        change = np.max(np.abs(new - lnK), axis=1)
+        lnK = new
+        conv = change < 1e-11
+        if np.all(conv | (np.max(np.abs(lnK), axis=1) < 1e-6)):
+            break
+    distinct = np.max(np.abs(lnK), axis=1) > 1e-6
+    P = np.asarray(P, dtype=float) * np.ones(m)
+    s = _split_state(model, T, z, lnK, np.log(P), starter)
+    found = ~(np.isnan(s.rho_liquid) | np.isnan(s.rho_vapor))
+    return _denser_is_liquid(s), conv & distinct & found
+
+
+def _split_state(model, T, z, lnK, lnP, starter):
+    """The (T, P) split for given K-factors and pressure (one pass, no iteration); NaN
+    densities where a phase has none."""
+    K = np.exp(np.clip(lnK, -LNK_MAX, LNK_MAX))
+    beta = rachford_rice(z, K)
+    x = z / (1.0 + beta[:, None] * (K - 1.0))
+    x = x / x.sum(axis=1, keepdims=True)
+    y = K * x
+    y = y / y.sum(axis=1, keepdims=True)
+    P = np.exp(lnP)
+    rl = stable_density(model, T, P, x, starter, strict=False)
+    rv = stable_density(model, T, P, y, starter, strict=False)
+    return Split(P=P, beta=beta, x=x, y=y, rho_liquid=rl, rho_vapor=rv)
+
+
+def _tv_residual(model, T, z, v_target, u, starter) -> tuple[np.ndarray, Split]:
+    """Residuals of the closed-vessel split in u = (ln K, ln P): equal fugacities and the
+    vessel's molar volume."""
+    s = _split_state(model, T, z, u[:, :-1], u[:, -1], starter)
+    r_phi = u[:, :-1] - (ln_phi(model, T, s.rho_liquid, s.x) - ln_phi(model, T, s.rho_vapor, s.y))
+    v = s.beta / s.rho_vapor + (1.0 - s.beta) / s.rho_liquid
+    r_v = v / v_target - 1.0  # not ln: v < 0 for a negative flash far from the answer
+    return np.concatenate([r_phi, r_v[:, None]], axis=1), s
+
+
+def split_TV(
+    model: MixtureModel,
+    T: FloatArray,
+    rho: FloatArray,
+    z: FloatArray,
+    lnK0: FloatArray,
+    P0: FloatArray,
+    starter: Any = None,
+    warm: bool = False,
+    fallback: bool = True,
+) -> Split:
+    """The two-phase state of closed vessels at T [K], overall density ρ [mol/m³], feed z.
+
+    ``lnK0`` (vapour over liquid) and ``P0`` [Pa] start the iterations: a few successive
+    substitutions at P0 (skipped when ``warm``), then Newton's method in (ln K, ln P) with a
+    forward-difference Jacobian and step halving. States where Newton does not converge, or
+    converges to a single phase, are solved by the bracketing method instead (unless not
+    ``fallback``: then β outside [0, 1] marks a state that does not split). Raises
+    ConvergenceError where neither reproduces the vessel's volume.
+    """
+    T, rho, z = np.asarray(T, dtype=float), np.asarray(rho, dtype=float), np.asarray(z, float)
+    lnK = np.array(lnK0, dtype=float)
+    P0 = np.asarray(P0, dtype=float) * np.ones(T.size)
+    v_target = 1.0 / rho
+    if not warm:
+        s, _ = flash_TP(model, T, P0, z, lnK, starter, max_iter=8)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            lnK = np.where(np.isfinite(np.log(s.y / s.x)), np.log(s.y / s.x), lnK)
+    u = np.concatenate([lnK, np.log(P0)[:, None]], axis=1)
+    r, s = _tv_residual(model, T, z, v_target, u, starter)
+    k = u.shape[1]
+    for _ in range(30):
+        norm = np.max(np.abs(r), axis=1)
+        if np.all(norm < 1e-10):
+            break
+        J = np.empty((T.size, k, k))
+        h = 1e-7
+        for j in range(k):
+            du = u.copy()
+            du[:, j] += h
+            J[:, :, j] = (_tv_residual(model, T, z, v_target, du, starter)[0] - r) / h
+        with np.errstate(invalid="ignore"):
+            try:
+                step = -np.linalg.solve(J, r[..., None])[..., 0]
+            except np.linalg.LinAlgError:
+                break
+        step = np.where(np.isfinite(step), step, 0.0)
+        step *= np.minimum(1.0, 1.0 / np.maximum(np.max(np.abs(step), axis=1), 1e-300))[:, None]
+        lam = np.ones(T.size)
+        for _ in range(6):
+            u_new = u + lam[:, None] * step
+            r_new, s_new = _tv_residual(model, T, z, v_target, u_new, starter)
+            # never towards the trivial solution (both phases the feed)
+            distinct = np.max(np.abs(u_new[:, :-1]), axis=1) > 1e-4
+            better = (np.max(np.abs(r_new), axis=1) < norm) & distinct
+            if np.all(better | (norm < 1e-10)):
+                break
+            lam = np.where(better, lam, 0.5 * lam)
+        take = better & (norm >= 1e-10)
+        u = np.where(take[:, None], u_new, u)
+        r = np.where(take[:, None], r_new, r)
+        s = _merge(take, s_new, s)
+        if not np.any(take):
+            break
+    good = (np.max(np.abs(r), axis=1) < 1e-9) & (np.max(np.abs(u[:, :-1]), axis=1) > 1e-6)
+    good &= (s.beta >= 0.0) & (s.beta <= 1.0)
+    if np.all(good) or not fallback:
+        return _denser_is_liquid(s)
+    bad = np.flatnonzero(~good)
+    fb = _split_TV_bracketed(model, T[bad], rho[bad], z[bad], lnK0[bad], P0[bad], starter)
+    return _denser_is_liquid(_merge(good, s, _scatter(bad, fb, s)))
+
+
+def _merge(mask: np.ndarray, a: Split, b: Split) -> Split:
+    """Split a where mask, else b."""
+    m1, m2 = mask, mask[:, None]
+    return Split(
+        P=np.where(m1, a.P, b.P),
+        beta=np.where(m1, a.beta, b.beta),
+        x=np.where(m2, a.x, b.x),
+        y=np.where(m2, a.y, b.y),
+        rho_liquid=np.where(m1, a.rho_liquid, b.rho_liquid),
+        rho_vapor=np.where(m1, a.rho_vapor, b.rho_vapor),
+    )
+
+
+def _scatter(idx: np.ndarray, part: Split, like: Split) -> Split:
+    """A Split shaped like ``like`` holding ``part`` at rows idx."""
+    out = {k: np.array(getattr(like, k), copy=True) for k in like.__dataclass_fields__}
+    for k in out:
+        out[k][idx] = getattr(part, k)
+    return Split(**out)
+
+
+def _denser_is_liquid(s: Split) -> Split:
+    swap = s.rho_vapor > s.rho_liquid
+    return Split(
+        P=s.P,
+        beta=np.where(swap, 1.0 - s.beta, s.beta),
+        x=np.where(swap[:, None], s.y, s.x),
+        y=np.where(swap[:, None], s.x, s.y),
+        rho_liquid=np.where(swap, s.rho_vapor, s.rho_liquid),
+        rho_vapor=np.where(swap, s.rho_liquid, s.rho_vapor),
+    )
+
+
+def _split_TV_bracketed(
+    model: MixtureModel,
+    T: FloatArray,
+    rho: FloatArray,
+    z: FloatArray,
+    lnK0: FloatArray,
+    P0: FloatArray,
+    starter: Any = None,
+) -> Split:
+    """The closed-vessel split by regula falsi on ln P around (T, P) flashes (slow, sure)."""
+    T, rho = np.asarray(T, dtype=float), np.asarray(rho, dtype=float)
+    m = T.size
+    v_target = 1.0 / rho
+    lnK = np.array(lnK0, dtype=float)
+
+    def volume(P: np.ndarray, lnK0: np.ndarray, idx: np.ndarray) -> tuple[np.ndarray, Split, Any]:
+        s, ok = flash_TP(model, T[idx], P, z[idx], lnK0, starter)
+        v = s.beta / s.rho_vapor + (1.0 - s.beta) / s.rho_liquid
+        single = stable_density(model, T[idx], P, z[idx], starter, strict=False)
+        v = np.where(ok, v, 1.0 / single)
+        return v - v_target[idx], s, ok
+
+    idx = np.arange(m)
+    P0 = np.asarray(P0, dtype=float)
+    f0, s0, _ = volume(P0, lnK, idx)
+    lnK = np.where(np.isfinite(np.log(s0.y / s0.x)), np.log(s0.y / s0.x), lnK)
+    # bracket in ln P: f falls as P rises
+    lnP_lo, lnP_hi = np.log(P0), np.log(P0)
+    f_lo, f_hi = f0.copy(), f0.copy()
+    for _ in range(60):
+        need_lo = f_lo < 0.0
+        need_hi = f_hi > 0.0
+        if not (np.any(need_lo) or np.any(need_hi)):
+            break
+        for need, side in ((need_lo, -1), (need_hi, 1)):
+            i = np.flatnonzero(need)
+            if i.size == 0:
+                continue
+            lnP_new = (lnP_lo[i] if side < 0 else lnP_hi[i]) + side * 0.3
+            f_new, _s, _ = volume(np.exp(lnP_new), lnK[i], i)
+            if side < 0:
+                lnP_lo[i], f_lo[i] = lnP_new, f_new
+            else:
+                lnP_hi[i], f_hi[i] = lnP_new, f_new
+    if np.any(f_lo < 0.0) or np.any(f_hi > 0.0):
+        i = int(np.flatnonzero((f_lo < 0.0) | (f_hi > 0.0))[0])
+        raise ConvergenceError(
+            f"closed-vessel phase split: no pressure bracket at T = {T[i]:.6g} K, "
+            f"ρ = {rho[i]:.6g} mol/m³"
+        )
+    side = np.zeros(m)
+    split = s0
+    for _ in range(200):
+        lnP = (lnP_lo * f_hi - lnP_hi * f_lo) / (f_hi - f_lo)
+        lnP = np.where(np.isfinite(lnP), lnP, 0.5 * (lnP_lo + lnP_hi))
+        f, split, _ = volume(np.exp(lnP), lnK, idx)
+        lnK = np.where(np.isfinite(np.log(split.y / split.x)), np.log(split.y / split.x), lnK)
+        if np.all((np.abs(f) < 1e-11 * v_target) | (lnP_hi - lnP_lo < 1e-13)):
+            break
+        lower = f > 0.0
+        lnP_lo = np.where(lower, lnP, lnP_lo)
+        lnP_hi = np.where(lower, lnP_hi, lnP)
+        f_hi = np.where(lower & (side == -1), 0.5 * f_hi, f_hi)
+        f_lo = np.where(~lower & (side == 1), 0.5 * f_lo, f_lo)
+        f_lo = np.where(lower, f, f_lo)
+        f_hi = np.where(lower, f_hi, f)
+        side = np.where(lower, -1, 1)
+    else:
+        i = int(np.argmax(np.abs(f) / v_target))
+        raise ConvergenceError(
+            f"closed-vessel phase split did not converge at T = {T[i]:.6g} K, "
+            f"ρ = {rho[i]:.6g} mol/m³"
+        )
+    return split

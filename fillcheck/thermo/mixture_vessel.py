@@ -1,0 +1,282 @@
+"""The closed-vessel path of a mixture: the fixed-volume phase split along temperature.
+
+Mass and volume fix the overall density ρ and the composition z. At each temperature the
+homogeneous state (T, ρ, z) is tested for stability at its own pressure (a state with
+(∂P/∂ρ)_T ≤ 0 is unstable outright); where it is stable the pressure is P(T, ρ, z) straight from
+the model, and where it is not the vessel holds two phases whose pressure, amounts and
+compositions come from :func:`~fillcheck.thermo.mixture_equilibrium.split_TV`.
+
+The isochore meets the phase envelope where the stability changes. Found by bisection on
+temperature, the crossing is a dew point where the incipient phase is denser than the vessel's
+content (liquid forms on cooling) and a bubble point where it is lighter (the vessel is full of
+one dense phase above it: "liquid-full"). At fixed temperature the two-phase states of one
+composition span a band of overall densities, from the dew-point vapour to the bubble-point
+liquid (or the upper dew point in the retrograde region); its ends are found the same way in ρ.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import TYPE_CHECKING
+
+import numpy as np
+
+from fillcheck.errors import ConvergenceError, StateError
+from fillcheck.models.base import FloatArray
+from fillcheck.thermo import mixture_equilibrium as eq
+from fillcheck.thermo.saturation import Saturation
+from fillcheck.thermo.vessel import VesselPath
+
+if TYPE_CHECKING:
+    from fillcheck.thermo.mixture_fluid import MixtureFluid
+
+DT_SLOPE_K = 0.02
+"""Temperature step of the central difference giving dP/dT in two phases [K]."""
+BAND_POINTS = 28
+"""Densities scanned per temperature for the two-phase band."""
+BAND_TOL = 1e-5
+"""Relative tolerance of the band's ends in density [-]."""
+
+
+@dataclass(frozen=True)
+class MixtureVesselPath(VesselPath):
+    """A :class:`~fillcheck.thermo.vessel.VesselPath` with the two phases' compositions.
+
+    liquid_x, vapour_y : mole fractions of the phases where two-phase, NaN elsewhere (m, n)
+    vapour_fraction : vapour mole fraction where two-phase, NaN elsewhere [-]
+    """
+
+    liquid_x: np.ndarray | None = None
+    vapour_y: np.ndarray | None = None
+    vapour_fraction: np.ndarray | None = None
+
+
+def _feed(f: MixtureFluid, m: int) -> np.ndarray:
+    return np.broadcast_to(f.z, (m, f.z.size)).copy()
+
+
+def homogeneous(f: MixtureFluid, T: np.ndarray, rho: np.ndarray):
+    """Pressure [Pa], (∂P/∂T)_ρ [Pa/K] and mechanical stability of the one-phase states."""
+    m = f.mixture
+    z = _feed(f, T.size)
+    d = m.alphar(T, rho, z)
+    P = rho * m.R * T * (1.0 + d.a01)
+    dPdT = rho * m.R * (1.0 + d.a01 - d.a11)
+    mech = (1.0 + 2.0 * d.a01 + d.a02 > 0.0) & (P > 0.0)
+    return P, dPdT, mech
+
+
+def unstable(
+    f: MixtureFluid, T: np.ndarray, rho: np.ndarray, skip: np.ndarray | None = None
+) -> tuple[np.ndarray, eq.Stability]:
+    """Whether the homogeneous states (T, ρ) split, and the stability result (where tested).
+    States marked in ``skip`` are taken as stable without a test."""
+    P, _, mech = homogeneous(f, T, rho)
+    if skip is not None:
+        mech = mech | skip
+        P = np.where(skip, 1.0, P)
+    z = _feed(f, T.size)
+    idx = np.flatnonzero(mech & (skip is None or ~skip))
+    out = ~mech
+    tm = np.full(T.size, -np.inf)
+    w = np.full(z.shape, np.nan)
+    rw = np.full(T.size, np.nan)
+    if idx.size:
+        st = eq.stability(f.mixture, T[idx], P[idx], z[idx], rho[idx], f.comps, f.starter)
+        out[idx] = st.unstable
+        tm[idx], w[idx], rw[idx] = st.tm, st.w, st.rho_trial
+    return out, eq.Stability(out, tm, w, rw)
+
+
+def _split(f: MixtureFluid, T: np.ndarray, rho: np.ndarray, st: eq.Stability) -> eq.Split:
+    """The split of unstable states, started from the stability test's incipient phase: at
+    the homogeneous pressure where that phase is denser (the vessel's content is a vapour),
+    at Raoult's bubble pressure with Wilson's vapour pressures where it is lighter (the
+    content is a liquid, whose homogeneous pressure says little)."""
+    z = _feed(f, T.size)
+    ln_psat = f.comps.ln_wilson_k(T, np.ones(T.size))  # ln of Wilson's vapour pressure [Pa]
+    P_bubble = np.sum(z * np.exp(ln_psat), axis=1)
+    P_dew = 1.0 / np.sum(z * np.exp(-ln_psat), axis=1)
+    tested = np.isfinite(st.rho_trial)
+    dense_trial = tested & (st.rho_trial > rho)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        lnK_s = np.log(st.w) - np.log(z)
+    lnK_s = np.where(dense_trial[:, None], -lnK_s, lnK_s)
+    P_hom, _, _ = homogeneous(f, T, rho)
+    P0 = np.where(dense_trial, np.where(P_hom > 0.0, P_hom, P_dew), P_bubble)
+    lnK0 = np.where(tested[:, None], lnK_s, f.comps.ln_wilson_k(T, P0))
+    return eq.split_TV(f.mixture, T, rho, z, lnK0, P0, f.starter)
+
+
+def mixture_vessel_path(f: MixtureFluid, T: FloatArray, rho_mol: FloatArray) -> MixtureVesselPath:
+    """Closed-vessel states of a mixture at T [K] and overall density ρ [mol/m³] (broadcast)."""
+    T, rho = np.broadcast_arrays(np.asarray(T, dtype=float), np.asarray(rho_mol, dtype=float))
+    T, rho = T.astype(float).ravel(), rho.astype(float).ravel()
+    rho_max = f.eos.max_density_mol()
+    if np.any(rho >= rho_max) or np.any(rho <= 0.0):
+        raise StateError(
+            f"{f.name}: a density of {rho.max() * f.molar_mass:.6g} kg/m³ is beyond what the "
+            f"{f.model} model allows (0 to {rho_max * f.molar_mass:.6g})"
+        )
+    n = f.z.size
+    P, dPdT, _ = homogeneous(f, T, rho)
+    m = T.size
+    quality = np.full(m, np.nan)
+    rl, rv, beta = np.full(m, np.nan), np.full(m, np.nan), np.full(m, np.nan)
+    xs, ys = np.full((m, n), np.nan), np.full((m, n), np.nan)
+    T_ct = f.cricondentherm_K
+    cand = np.flatnonzero(T < T_ct)
+    two = np.zeros(m, dtype=bool)
+    if cand.size:
+        u, st = unstable(f, T[cand], rho[cand])
+        idx = cand[u]
+        two[idx] = True
+        if idx.size:
+            sub = eq.Stability(st.unstable[u], st.tm[u], st.w[u], st.rho_trial[u])
+            s = _split(f, T[idx], rho[idx], sub)
+            P[idx], rl[idx], rv[idx], beta[idx] = s.P, s.rho_liquid, s.rho_vapor, s.beta
+            xs[idx], ys[idx] = s.x, s.y
+            Mv = s.y @ f.molar_masses
+            Mx = s.x @ f.molar_masses
+            quality[idx] = s.beta * Mv / (s.beta * Mv + (1.0 - s.beta) * Mx)
+            dPdT[idx] = _two_phase_slope(f, T[idx], rho[idx], s)
+    if not (np.all(np.isfinite(P)) and np.all(np.isfinite(dPdT))):
+        raise ConvergenceError(f"{f.model_name}: closed-vessel state of {f.name} not finite")
+    _, _, rhoc = f.model_critical
+    phase = np.where(
+        two,
+        "two-phase",
+        np.where(T >= T_ct, "supercritical", np.where(rho > rhoc, "liquid", "gas")),
+    )
+    return MixtureVesselPath(T, rho, P, phase, quality, dPdT, rl, rv, xs, ys, beta)
+
+
+def _two_phase_slope(f: MixtureFluid, T: np.ndarray, rho: np.ndarray, s: eq.Split) -> np.ndarray:
+    """dP/dT along the isochore in two phases by a central difference of splits started from
+    the split s at T [Pa/K]; a side that no longer splits takes the one-phase pressure."""
+    TT = np.concatenate([T - DT_SLOPE_K, T + DT_SLOPE_K])
+    rr = np.concatenate([rho, rho])
+    lnK = np.log(s.y / s.x)
+    z = _feed(f, TT.size)
+    w = eq.split_TV(
+        f.mixture,
+        TT,
+        rr,
+        z,
+        np.tile(lnK, (2, 1)),
+        np.tile(s.P, 2),
+        f.starter,
+        warm=True,
+        fallback=False,
+    )
+    P = np.where((w.beta >= 0.0) & (w.beta <= 1.0), w.P, homogeneous(f, TT, rr)[0])
+    k = T.size
+    return (P[k:] - P[:k]) / (2.0 * DT_SLOPE_K)
+
+
+def _bisect(flag, lo: np.ndarray, hi: np.ndarray, flag_lo: np.ndarray, tol: np.ndarray):
+    """Vectorised bisection for where ``flag`` changes between lo and hi."""
+    for _ in range(60):
+        if np.all(np.abs(hi - lo) <= tol):
+            break
+        mid = 0.5 * (lo + hi)
+        fm = flag(mid)
+        same = fm == flag_lo
+        lo = np.where(same, mid, lo)
+        hi = np.where(same, hi, mid)
+    return lo, hi
+
+
+def isochore_crossing(f: MixtureFluid, rho_mol: float, T_lo: float, T_hi: float):
+    """Where the isochore ρ [mol/m³] leaves the two-phase region on heating, between T_lo and
+    T_hi [K]: ("dew" | "liquid-full", T or None).
+
+    "dew": liquid is present below T; "liquid-full": the vessel is full of one dense phase
+    above T. None when no liquid is present at T_lo (then "dew", None), or the vessel is still
+    two-phase at T_hi (the upper end of the range is returned).
+    """
+    T_hi = min(T_hi, f.cricondentherm_K)
+    grid = np.linspace(T_lo, T_hi, 24)
+    u, st = unstable(f, grid, np.full(grid.size, rho_mol))
+    if not np.any(u):
+        return "dew", None
+    i = int(np.flatnonzero(u)[-1])
+    if i == grid.size - 1:
+        kind = "dew" if _incipient_dense(st, i, rho_mol) else "liquid-full"
+        return kind, float(T_hi)
+    lo, hi = _bisect(
+        lambda T: unstable(f, T, np.full(T.size, rho_mol))[0],
+        np.array([grid[i]]),
+        np.array([grid[i + 1]]),
+        np.array([True]),
+        np.array([1e-3]),
+    )
+    T_cross = float(0.5 * (lo[0] + hi[0]))
+    _, st2 = unstable(f, lo, np.array([rho_mol]))
+    kind = "dew" if _incipient_dense(st2, 0, rho_mol) else "liquid-full"
+    return kind, T_cross
+
+
+def _incipient_dense(st: eq.Stability, i: int, rho: float) -> bool:
+    """Whether the second phase at state i is denser than the vessel's content."""
+    rt = st.rho_trial[i]
+    return bool(not np.isfinite(rt) or rt > rho)
+
+
+SCAN_PRESSURE_CAP_PA = 100e6
+"""Scanned densities whose one-phase pressure, and that of every denser scanned state, is above
+this are compressed liquid, not part of a two-phase band [Pa]: a multiparameter equation far
+beyond its range may show spurious loops there."""
+
+
+def beyond_liquid(f: MixtureFluid, T: np.ndarray, rho: np.ndarray) -> np.ndarray:
+    """For a scan laid out as (temperatures × BAND_POINTS), the states above the cap (see
+    SCAN_PRESSURE_CAP_PA)."""
+    P = homogeneous(f, T, rho)[0].reshape(-1, BAND_POINTS)
+    top_min = np.minimum.accumulate(P[:, ::-1], axis=1)[:, ::-1]
+    return (top_min > SCAN_PRESSURE_CAP_PA).ravel()
+
+
+def density_scan(f: MixtureFluid) -> np.ndarray:
+    """Overall densities scanned for two-phase states [mol/m³]: from a thousandth of the
+    pseudo-critical density to 0.9/b of the Peng–Robinson starter (denser than any liquid of
+    the mixture in a vessel), evenly in ln ρ."""
+    top = min(0.98 * f.eos.max_density_mol(), 0.9 * float(f.starter.max_density_mol(f.z)))
+    return np.geomspace(1e-3 * f._pseudo[1], top, BAND_POINTS)
+
+
+def two_phase_band(f: MixtureFluid, T: FloatArray) -> Saturation:
+    """At each T [K], the band of overall densities in which the vessel holds two phases.
+
+    Returns a Saturation with rho_vapor and rho_liquid the band's lower and upper ends
+    [mol/m³] (the dew-point vapour and the bubble-point liquid) and P the pressure at the upper
+    end (the bubble pressure) [Pa]; NaN at temperatures where the scan finds no two-phase
+    state (at or above the cricondentherm, or a band narrower than the scan near it).
+    """
+    T = np.atleast_1d(np.asarray(T, dtype=float))
+    out = np.full(T.size, np.nan)
+    grid = density_scan(f)
+    TT = np.repeat(T, BAND_POINTS)
+    RR = np.tile(grid, T.size)
+    below = np.repeat(T < f.cricondentherm_K, BAND_POINTS)
+    skip = beyond_liquid(f, TT, RR) | ~below
+    u = unstable(f, TT, RR, skip)[0].reshape(T.size, BAND_POINTS)
+    has = u.any(axis=1)
+    if not np.any(has):
+        return Saturation(T=T, P=out, rho_liquid=out.copy(), rho_vapor=out.copy())
+    T_all, T, u = T, T[has], u[has]
+    first = u.argmax(axis=1)
+    last = BAND_POINTS - 1 - u[:, ::-1].argmax(axis=1)
+    flag = lambda r: unstable(f, T, r)[0]  # noqa: E731
+    lo_a = grid[np.maximum(first - 1, 0)]
+    lo_b = grid[first]
+    d_lo, d_hi = _bisect(flag, lo_a, lo_b, np.zeros(T.size, bool), BAND_TOL * lo_b)
+    rho_v = 0.5 * (d_lo + d_hi)
+    hi_a = grid[last]
+    hi_b = grid[np.minimum(last + 1, BAND_POINTS - 1)]
+    b_lo, b_hi = _bisect(flag, hi_a, hi_b, np.ones(T.size, bool), BAND_TOL * hi_a)
+    rho_l = 0.5 * (b_lo + b_hi)
+    P = homogeneous(f, T, rho_l)[0]
+    P_all, l_all, v_all = out.copy(), out.copy(), out.copy()
+    P_all[has], l_all[has], v_all[has] = P, rho_l, rho_v
+    return Saturation(T=T_all, P=P_all, rho_liquid=l_all, rho_vapor=v_all)
