@@ -12,5 +12,15 @@ __version__ = "0.1.0"
 
 from fillcheck.fluids.catalog import available_fluids
 from fillcheck.thermo.fluid import Fluid, State, fluid
+from fillcheck.thermo.mixture_fluid import MixtureFluid, MixtureState, mixture
 
-__all__ = ["Fluid", "State", "__version__", "available_fluids", "fluid"]
+__all__ = [
+    "Fluid",
+    "MixtureFluid",
+    "MixtureState",
+    "State",
+    "__version__",
+    "available_fluids",
+    "fluid",
+    "mixture",
+]

@@ -270,7 +270,7 @@ def _assess_group(
 
 def _reach_beyond(f: Fluid, vs, TT, PP, rho, allow, relief, small):
     """Temperatures where the isochore reaches each limit, looking past the range to 500 K."""
-    k = 200 if small else 24
+    k = (40 if getattr(f, "is_mixture", False) else 200) if small else 24
     n = len(vs)
     ext_T = TT[:, -1:] + (T_HARD_MAX_K - TT[:, -1:]) * np.linspace(0.0, 1.0, k)[None, :]
     need = ~(
@@ -314,7 +314,7 @@ def _saturation_curve(f: Fluid, TT: np.ndarray) -> list[tuple[np.ndarray, np.nda
     hi = min(Tc - 1e-3, float(TT[:, -1].max()) + 10.0)
     if hi <= lo:
         return [(np.zeros(0), np.zeros(0))] * len(TT)
-    T = np.linspace(lo, hi, 20 if getattr(f, "is_mixture", False) else 80)
+    T = np.linspace(lo, hi, 8 if getattr(f, "is_mixture", False) else 80)
     P = f.saturation_molar(T).P
     T, P = T[np.isfinite(P)], P[np.isfinite(P)]  # a mixture: only where a band was found
     out = []

@@ -210,6 +210,7 @@ def vessel_findings(
     near = (np.abs(path.T / Tc - 1) < NEAR_CRITICAL_T) & (
         np.abs(path.rho_mol / rhoc - 1) < NEAR_CRITICAL_RHO
     )
+    near &= not getattr(f, "is_mixture", False)  # a mixture's critical point is not computed
     if np.any(near):
         out.append(
             Finding(

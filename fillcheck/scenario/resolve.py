@@ -507,6 +507,13 @@ def _rules(
 ) -> Rules | None:
     if v.rules is None:
         return None
+    if isinstance(fluid, MixtureFluid):
+        raise where.fail(
+            "rules.set",
+            f"'{v.rules.set}' is an example rule set for single gases; P200 treats mixtures "
+            "by provisions of their own, which fillcheck does not encode; remove [rules] and "
+            "enter the limits the code gives for the mixture",
+        )
     entered["rules.set"] = v.rules.set
     entered["rules.test_pressure"] = v.rules.test_pressure
     P = where.run("rules.test_pressure", units.parse_pressure, v.rules.test_pressure, P_atm)

@@ -361,14 +361,118 @@ def _split_state(model, T, z, lnK, lnP, starter):
     return Split(P=P, beta=beta, x=x, y=y, rho_liquid=rl, rho_vapor=rv)
 
 
-def _tv_residual(model, T, z, v_target, u, starter) -> tuple[np.ndarray, Split]:
-    """Residuals of the closed-vessel split in u = (ln K, ln P): equal fugacities and the
-    vessel's molar volume."""
-    s = _split_state(model, T, z, u[:, :-1], u[:, -1], starter)
-    r_phi = u[:, :-1] - (ln_phi(model, T, s.rho_liquid, s.x) - ln_phi(model, T, s.rho_vapor, s.y))
-    v = s.beta / s.rho_vapor + (1.0 - s.beta) / s.rho_liquid
-    r_v = v / v_target - 1.0  # not ln: v < 0 for a negative flash far from the answer
-    return np.concatenate([r_phi, r_v[:, None]], axis=1), s
+def _newton_fd(residual, u: np.ndarray, tol: float, admissible=None, max_iter: int = 40):
+    """Newton's method, row by row, on ``residual(u) -> (r, extra)`` with a forward-difference
+    Jacobian; each step is scaled to at most 0.5 in any unknown and halved (up to eight times)
+    until the largest residual falls and ``admissible(u)`` holds. ``extra`` is a dict of arrays
+    (one row per state) kept for the accepted iterate. Returns u, r and extra."""
+    r, extra = residual(u)
+    k = u.shape[1]
+    for _ in range(max_iter):
+        norm = np.max(np.abs(r), axis=1)
+        norm = np.where(np.isfinite(norm), norm, np.inf)
+        if np.all(norm < tol):
+            break
+        J = np.empty((u.shape[0], k, k))
+        for j in range(k):
+            du = u.copy()
+            du[:, j] += 1e-7
+            J[:, :, j] = (residual(du)[0] - r) / 1e-7
+        with np.errstate(invalid="ignore", over="ignore"):
+            try:
+                step = -np.linalg.solve(J, r[..., None])[..., 0]
+            except np.linalg.LinAlgError:
+                break
+        step = np.where(np.isfinite(step), step, 0.0)
+        step *= np.minimum(1.0, 0.5 / np.maximum(np.max(np.abs(step), axis=1), 1e-300))[:, None]
+        lam = np.ones(u.shape[0])
+        for _ in range(8):
+            u_new = u + lam[:, None] * step
+            with np.errstate(invalid="ignore", over="ignore", divide="ignore"):
+                r_new, x_new = residual(u_new)
+            n_new = np.max(np.abs(r_new), axis=1)
+            better = np.isfinite(n_new) & (n_new < norm)
+            if admissible is not None:
+                better &= admissible(u_new)
+            if np.all(better | (norm < tol)):
+                break
+            lam = np.where(better, lam, 0.5 * lam)
+        take = better & (norm >= tol)
+        if not np.any(take):
+            break
+        u = np.where(take[:, None], u_new, u)
+        r = np.where(take[:, None], r_new, r)
+        extra = {
+            key: np.where(take.reshape((-1,) + (1,) * (v.ndim - 1)), x_new[key], v)
+            for key, v in extra.items()
+        }
+    return u, r, extra
+
+
+def _chemical_potentials(model, T, rho, x):
+    """ln(xᵢρ) + ∂(nαʳ)/∂nᵢ (the (T, ρ)-dependent part of μᵢ/RT) and P [Pa]."""
+    xn = x / x.sum(axis=1, keepdims=True)
+    d = model.alphar(T, rho, xn)
+    mu = np.log(x) + np.log(rho)[:, None] + d.a00[:, None] + model.dalphar_dn(T, rho, xn)
+    return mu, rho * model.R * T * (1.0 + d.a01)
+
+
+def _split_newton_TV(model, T, rho, z, start: Split) -> tuple[Split, np.ndarray]:
+    """The closed-vessel split by Newton's method in (T, ρ) variables from a starting split.
+
+    Unknowns u = (ln y, ln x, ln ρ_v, ln ρ_l, β); equations: equal μᵢ, equal pressures,
+    Σy = 1, the component balances βyᵢ + (1 − β)xᵢ = zᵢ and the volume balance
+    β/ρ_v + (1 − β)/ρ_l = 1/ρ. No density is solved from a pressure. Returns the split and
+    a mask of the states where it converged to two distinct phases with 0 ≤ β ≤ 1."""
+    n = z.shape[1]
+
+    def residual(u):
+        y, x = np.exp(u[:, :n]), np.exp(u[:, n : 2 * n])
+        rv, rl, beta = np.exp(u[:, 2 * n]), np.exp(u[:, 2 * n + 1]), u[:, 2 * n + 2]
+        mv_, Pv = _chemical_potentials(model, T, rv, y)
+        ml, Pl = _chemical_potentials(model, T, rl, x)
+        r = np.concatenate(
+            [
+                mv_ - ml,
+                ((Pv - Pl) / (rho * model.R * T))[:, None],
+                (y.sum(axis=1) - 1.0)[:, None],
+                beta[:, None] * y + (1.0 - beta[:, None]) * x - z,
+                (rho * (beta / rv + (1.0 - beta) / rl) - 1.0)[:, None],
+            ],
+            axis=1,
+        )
+        return r, {"P": 0.5 * (Pv + Pl)}
+
+    with np.errstate(divide="ignore", invalid="ignore"):
+        beta0 = (1.0 / rho - 1.0 / start.rho_liquid) / (
+            1.0 / start.rho_vapor - 1.0 / start.rho_liquid
+        )
+    beta0 = np.clip(np.nan_to_num(beta0, nan=0.5), 1e-4, 1.0 - 1e-4)
+    u0 = np.concatenate(
+        [
+            np.log(np.clip(start.y, 1e-300, None)),
+            np.log(np.clip(start.x, 1e-300, None)),
+            np.log(start.rho_vapor)[:, None],
+            np.log(start.rho_liquid)[:, None],
+            beta0[:, None],
+        ],
+        axis=1,
+    )
+    u0 = np.nan_to_num(u0, nan=0.0, posinf=0.0, neginf=-690.0)
+    u, r, extra = _newton_fd(residual, u0, 1e-11)
+    y, x = np.exp(u[:, :n]), np.exp(u[:, n : 2 * n])
+    rv, rl, beta = np.exp(u[:, 2 * n]), np.exp(u[:, 2 * n + 1]), u[:, 2 * n + 2]
+    distinct = np.abs(np.log(rl / rv)) > 1e-6
+    ok = (np.max(np.abs(r), axis=1) < 1e-9) & distinct & (beta >= 0.0) & (beta <= 1.0)
+    out = Split(
+        P=extra["P"],
+        beta=beta,
+        x=x / x.sum(axis=1, keepdims=True),
+        y=y / y.sum(axis=1, keepdims=True),
+        rho_liquid=rl,
+        rho_vapor=rv,
+    )
+    return _denser_is_liquid(out), ok
 
 
 def split_TV(
@@ -379,66 +483,27 @@ def split_TV(
     lnK0: FloatArray,
     P0: FloatArray,
     starter: Any = None,
-    warm: bool = False,
+    start: Split | None = None,
     fallback: bool = True,
 ) -> Split:
     """The two-phase state of closed vessels at T [K], overall density ρ [mol/m³], feed z.
 
     ``lnK0`` (vapour over liquid) and ``P0`` [Pa] start the iterations: a few successive
-    substitutions at P0 (skipped when ``warm``), then Newton's method in (ln K, ln P) with a
-    forward-difference Jacobian and step halving. States where Newton does not converge, or
-    converges to a single phase, are solved by the bracketing method instead (unless not
-    ``fallback``: then β outside [0, 1] marks a state that does not split). Raises
-    ConvergenceError where neither reproduces the vessel's volume.
+    substitutions of a (T, P) flash at P0, then Newton's method in (T, ρ) variables
+    (:func:`_split_newton_TV`). ``start``, a split of nearby states, replaces the successive
+    substitutions. States where Newton does not converge, or converges to a single phase, are
+    solved by the bracketing method instead (unless not ``fallback``: then β outside [0, 1]
+    marks a state that does not split). Raises ConvergenceError where neither reproduces the
+    vessel's volume.
     """
     T, rho, z = np.asarray(T, dtype=float), np.asarray(rho, dtype=float), np.asarray(z, float)
-    lnK = np.array(lnK0, dtype=float)
+    lnK0 = np.array(lnK0, dtype=float)
     P0 = np.asarray(P0, dtype=float) * np.ones(T.size)
-    v_target = 1.0 / rho
-    if not warm:
-        s, _ = flash_TP(model, T, P0, z, lnK, starter, max_iter=8)
-        with np.errstate(divide="ignore", invalid="ignore"):
-            lnK = np.where(np.isfinite(np.log(s.y / s.x)), np.log(s.y / s.x), lnK)
-    u = np.concatenate([lnK, np.log(P0)[:, None]], axis=1)
-    r, s = _tv_residual(model, T, z, v_target, u, starter)
-    k = u.shape[1]
-    for _ in range(30):
-        norm = np.max(np.abs(r), axis=1)
-        if np.all(norm < 1e-10):
-            break
-        J = np.empty((T.size, k, k))
-        h = 1e-7
-        for j in range(k):
-            du = u.copy()
-            du[:, j] += h
-            J[:, :, j] = (_tv_residual(model, T, z, v_target, du, starter)[0] - r) / h
-        with np.errstate(invalid="ignore"):
-            try:
-                step = -np.linalg.solve(J, r[..., None])[..., 0]
-            except np.linalg.LinAlgError:
-                break
-        step = np.where(np.isfinite(step), step, 0.0)
-        step *= np.minimum(1.0, 1.0 / np.maximum(np.max(np.abs(step), axis=1), 1e-300))[:, None]
-        lam = np.ones(T.size)
-        for _ in range(6):
-            u_new = u + lam[:, None] * step
-            r_new, s_new = _tv_residual(model, T, z, v_target, u_new, starter)
-            # never towards the trivial solution (both phases the feed)
-            distinct = np.max(np.abs(u_new[:, :-1]), axis=1) > 1e-4
-            better = (np.max(np.abs(r_new), axis=1) < norm) & distinct
-            if np.all(better | (norm < 1e-10)):
-                break
-            lam = np.where(better, lam, 0.5 * lam)
-        take = better & (norm >= 1e-10)
-        u = np.where(take[:, None], u_new, u)
-        r = np.where(take[:, None], r_new, r)
-        s = _merge(take, s_new, s)
-        if not np.any(take):
-            break
-    good = (np.max(np.abs(r), axis=1) < 1e-9) & (np.max(np.abs(u[:, :-1]), axis=1) > 1e-6)
-    good &= (s.beta >= 0.0) & (s.beta <= 1.0)
+    if start is None:
+        start, _ = flash_TP(model, T, P0, z, lnK0, starter, max_iter=8)
+    s, good = _split_newton_TV(model, T, rho, z, start)
     if np.all(good) or not fallback:
-        return _denser_is_liquid(s)
+        return s
     bad = np.flatnonzero(~good)
     fb = _split_TV_bracketed(model, T[bad], rho[bad], z[bad], lnK0[bad], P0[bad], starter)
     return _denser_is_liquid(_merge(good, s, _scatter(bad, fb, s)))
@@ -551,3 +616,72 @@ def _split_TV_bracketed(
             f"ρ = {rho[i]:.6g} mol/m³"
         )
     return split
+
+
+# --- phase boundaries ------------------------------------------------------------------------
+@dataclass(frozen=True)
+class Boundary:
+    """A point of the phase envelope: the feed z just able to form an incipient phase w.
+
+    rho_feed, rho_incipient [mol/m³]; w (m, n) [-]; P [Pa]; converged: mask of solved states.
+    """
+
+    rho_feed: np.ndarray
+    w: np.ndarray
+    rho_incipient: np.ndarray
+    P: np.ndarray
+    converged: np.ndarray
+
+
+def _boundary_residual(model, T, z, u):
+    """Residuals in u = (ln w, ln ρ_z, ln ρ_w): equal chemical potentials in (T, ρ) form,
+    ln(wᵢρ_w) + ∂(nαʳ)/∂nᵢ(w, ρ_w) = ln(zᵢρ_z) + ∂(nαʳ)/∂nᵢ(z, ρ_z), equal pressures, Σw = 1."""
+    n = z.shape[1]
+    w = np.exp(u[:, :n])
+    rz, rw = np.exp(u[:, n]), np.exp(u[:, n + 1])
+    dz = model.alphar(T, rz, z)
+    dw = model.alphar(T, rw, w)
+    mz = dz.a00[:, None] + model.dalphar_dn(T, rz, z)
+    mw = dw.a00[:, None] + model.dalphar_dn(T, rw, w / w.sum(axis=1, keepdims=True))
+    r_mu = u[:, :n] + u[:, n + 1][:, None] + mw - np.log(z) - u[:, n][:, None] - mz
+    Pz = rz * model.R * T * (1.0 + dz.a01)
+    Pw = rw * model.R * T * (1.0 + dw.a01)
+    r_P = (Pw - Pz) / (rz * model.R * T)
+    return np.concatenate([r_mu, r_P[:, None], (w.sum(axis=1) - 1.0)[:, None]], axis=1), Pz
+
+
+def phase_boundary(
+    model: MixtureModel,
+    T: FloatArray,
+    z: FloatArray,
+    rho_feed: FloatArray,
+    w: FloatArray,
+    rho_incipient: FloatArray,
+) -> Boundary:
+    """Dew, bubble and retrograde points at T [K] by Newton's method in (T, ρ) variables.
+
+    Unknowns: the incipient phase's composition w and density ρ_w and the feed's density ρ_z
+    (no density has to be solved from a pressure, which keeps stiff liquids well behaved);
+    equations: equal chemical potentials of every component, equal pressures, Σw = 1. The
+    Jacobian is by forward differences, steps are halved until the residual falls. The
+    starting values come from a stability test near the boundary. States that do not converge,
+    or converge to the trivial solution w = z, ρ_w = ρ_z, are marked in ``converged``.
+    """
+    T = np.asarray(T, dtype=float)
+    z = np.asarray(z, dtype=float)
+    n = z.shape[1]
+    u = np.concatenate(
+        [
+            np.log(np.clip(w, 1e-300, None)),
+            np.log(np.asarray(rho_feed, float))[:, None],
+            np.log(np.asarray(rho_incipient, float))[:, None],
+        ],
+        axis=1,
+    )
+    u, r, _ = _newton_fd(lambda v: (_boundary_residual(model, T, z, v)[0], {}), u, 1e-11)
+    P = _boundary_residual(model, T, z, u)[1]
+    w_out = np.exp(u[:, :n])
+    rz, rw = np.exp(u[:, n]), np.exp(u[:, n + 1])
+    trivial = (np.max(np.abs(w_out - z), axis=1) < 1e-6) & (np.abs(rw / rz - 1.0) < 1e-6)
+    ok = (np.max(np.abs(r), axis=1) < 1e-9) & ~trivial
+    return Boundary(rho_feed=rz, w=w_out, rho_incipient=rw, P=P, converged=ok)

@@ -15,7 +15,6 @@ from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
-from functools import cached_property
 
 import numpy as np
 
@@ -34,8 +33,9 @@ from fillcheck.thermo.fluid import CriticalPoint, Validity, _out, _positive
 from fillcheck.thermo.saturation import Saturation
 
 MIXTURE_MODEL_IDS = ("reference", "pr-peneloux", "pr")
-CRICONDENTHERM_TOL_K = 0.1
-"""Bisection tolerance of the cricondentherm [K]."""
+TWO_PHASE_LIMIT_FACTOR = 1.05
+"""Above this multiple of the highest component critical temperature no stability test is
+made (see MixtureFluid.two_phase_limit_K) [-]."""
 """Models a mixture can use."""
 
 MULTIFLUID_RANGE = (90.0, 450.0, 35e6)
@@ -233,37 +233,21 @@ class MixtureFluid:
         return Validity(max(max(T_lo), self.T_min_saturation), min(T_hi), min(P_hi), src)
 
     # --- phase behaviour ---------------------------------------------------------------------
-    @cached_property
-    def cricondentherm_K(self) -> float:
-        """The highest temperature at which the mixture can hold two phases [K]: bisection on
-        whether any density of the scan splits, between the highest triple point and 1.05 times
-        the highest critical temperature of the components, first tried at the lowest."""
-        Tc_max = float(self.comps.Tc.max())
-        grid = mv.density_scan(self)
-
-        def splits(T: float) -> bool:
-            TT = np.full(grid.size, T)
-            u, _ = mv.unstable(self, TT, grid, mv.beyond_liquid(self, TT, grid))
-            return bool(u.any())
-
-        self.__dict__["cricondentherm_K"] = np.inf  # the scan itself must not be cut off
-        lo, hi = self.T_min_saturation, 1.05 * Tc_max
-        mid = min(max(float(self.comps.Tc.min()), lo + 1.0), hi - 1.0)
-        while hi - lo > CRICONDENTHERM_TOL_K:
-            if splits(mid):
-                lo = mid
-            else:
-                hi = mid
-            mid = 0.5 * (lo + hi)
-        self.__dict__["cricondentherm_K"] = hi
-        return hi
+    @property
+    def two_phase_limit_K(self) -> float:
+        """A temperature above which the mixture holds one phase at any density [K]: 1.05
+        times the highest critical temperature of its components. The two-phase region of a
+        mixture of these gases ends below the critical temperature of its heaviest component
+        (mixtures with gas–gas immiscibility, such as helium with xenon at thousands of bar,
+        are outside fillcheck's range); above this no stability test is needed."""
+        return TWO_PHASE_LIMIT_FACTOR * float(self.comps.Tc.max())
 
     @property
     def model_critical(self) -> tuple[float, float, float]:
-        """(cricondentherm [K], NaN, pseudo-critical density [mol/m³]): where a pure fluid has
-        its critical temperature, a mixture has the highest temperature of its two-phase
-        region; the density that separates "gas" from "liquid" is Kay's pseudo-critical one."""
-        return self.cricondentherm_K, float("nan"), self._pseudo[1]
+        """(two-phase limit [K], NaN, pseudo-critical density [mol/m³]): where a pure fluid has
+        its critical temperature, a mixture has the temperature above which it cannot hold two
+        phases; the density that separates "gas" from "liquid" is Kay's pseudo-critical one."""
+        return self.two_phase_limit_K, float("nan"), self._pseudo[1]
 
     def vessel_path(self, T: FloatArray, rho_mol: FloatArray) -> mv.MixtureVesselPath:
         """Closed-vessel states at T [K] and overall density ρ [mol/m³]."""
@@ -271,7 +255,7 @@ class MixtureFluid:
 
     def saturation_crossing(self, rho_mol: float) -> tuple[str, float | None]:
         """Where the isochore leaves the two-phase region (see mixture_vessel)."""
-        return mv.isochore_crossing(self, rho_mol, self.T_min_saturation, self.cricondentherm_K)
+        return mv.isochore_crossing(self, rho_mol, self.T_min_saturation, self.two_phase_limit_K)
 
     def saturation_molar(self, T: FloatArray) -> Saturation:
         """The two-phase band at each T [K]: bubble pressure, band ends [mol/m³]."""
@@ -286,7 +270,7 @@ class MixtureFluid:
         z = np.broadcast_to(self.z, (T.size, self.z.size)).copy()
         rho = eq.stable_density(self.mixture, T, P, z, self.starter)
         st = eq.stability(self.mixture, T, P, z, rho, self.comps, self.starter)
-        idx = np.flatnonzero(st.unstable & (T < self.cricondentherm_K))
+        idx = np.flatnonzero(st.unstable & (T < self.two_phase_limit_K))
         if idx.size:
             with np.errstate(divide="ignore", invalid="ignore"):
                 lnK = np.log(st.w[idx]) - np.log(z[idx])

@@ -124,8 +124,7 @@ def mixture_vessel_path(f: MixtureFluid, T: FloatArray, rho_mol: FloatArray) -> 
     quality = np.full(m, np.nan)
     rl, rv, beta = np.full(m, np.nan), np.full(m, np.nan), np.full(m, np.nan)
     xs, ys = np.full((m, n), np.nan), np.full((m, n), np.nan)
-    T_ct = f.cricondentherm_K
-    cand = np.flatnonzero(T < T_ct)
+    cand = np.flatnonzero(T < f.two_phase_limit_K)
     two = np.zeros(m, dtype=bool)
     if cand.size:
         u, st = unstable(f, T[cand], rho[cand])
@@ -142,11 +141,11 @@ def mixture_vessel_path(f: MixtureFluid, T: FloatArray, rho_mol: FloatArray) -> 
             dPdT[idx] = _two_phase_slope(f, T[idx], rho[idx], s)
     if not (np.all(np.isfinite(P)) and np.all(np.isfinite(dPdT))):
         raise ConvergenceError(f"{f.model_name}: closed-vessel state of {f.name} not finite")
-    _, _, rhoc = f.model_critical
+    T_pc, rho_pc = f._pseudo  # Kay's pseudo-critical point names the one-phase states
     phase = np.where(
         two,
         "two-phase",
-        np.where(T >= T_ct, "supercritical", np.where(rho > rhoc, "liquid", "gas")),
+        np.where(T >= T_pc, "supercritical", np.where(rho > rho_pc, "liquid", "gas")),
     )
     return MixtureVesselPath(T, rho, P, phase, quality, dPdT, rl, rv, xs, ys, beta)
 
@@ -156,17 +155,21 @@ def _two_phase_slope(f: MixtureFluid, T: np.ndarray, rho: np.ndarray, s: eq.Spli
     the split s at T [Pa/K]; a side that no longer splits takes the one-phase pressure."""
     TT = np.concatenate([T - DT_SLOPE_K, T + DT_SLOPE_K])
     rr = np.concatenate([rho, rho])
-    lnK = np.log(s.y / s.x)
     z = _feed(f, TT.size)
+    both = eq.Split(
+        *(np.concatenate([v, v]) for v in (s.P, s.beta, s.x, s.y)),
+        np.tile(s.rho_liquid, 2),
+        np.tile(s.rho_vapor, 2),
+    )
     w = eq.split_TV(
         f.mixture,
         TT,
         rr,
         z,
-        np.tile(lnK, (2, 1)),
-        np.tile(s.P, 2),
+        np.log(both.y / both.x),
+        both.P,
         f.starter,
-        warm=True,
+        start=both,
         fallback=False,
     )
     P = np.where((w.beta >= 0.0) & (w.beta <= 1.0), w.P, homogeneous(f, TT, rr)[0])
@@ -195,7 +198,7 @@ def isochore_crossing(f: MixtureFluid, rho_mol: float, T_lo: float, T_hi: float)
     above T. None when no liquid is present at T_lo (then "dew", None), or the vessel is still
     two-phase at T_hi (the upper end of the range is returned).
     """
-    T_hi = min(T_hi, f.cricondentherm_K)
+    T_hi = min(T_hi, f.two_phase_limit_K)
     grid = np.linspace(T_lo, T_hi, 24)
     u, st = unstable(f, grid, np.full(grid.size, rho_mol))
     if not np.any(u):
@@ -245,20 +248,69 @@ def density_scan(f: MixtureFluid) -> np.ndarray:
     return np.geomspace(1e-3 * f._pseudo[1], top, BAND_POINTS)
 
 
+def _band_end(f: MixtureFluid, T: np.ndarray, a: np.ndarray, b: np.ndarray) -> np.ndarray:
+    """The band's end between densities a (one phase) and b (two phases) at each T [mol/m³]:
+    a few bisections on the stability test, then Newton's method on the phase-boundary
+    equations (:func:`~fillcheck.thermo.mixture_equilibrium.phase_boundary`); where that does
+    not converge inside the bracket, bisection to BAND_TOL."""
+    st_b = None
+    for _ in range(4):
+        mid = np.sqrt(a * b)
+        u, st = unstable(f, T, mid)
+        a = np.where(u, a, mid)
+        b = np.where(u, mid, b)
+        if st_b is None:
+            st_b = st
+        keep = u[:, None]
+        st_b = eq.Stability(
+            np.where(u, True, st_b.unstable),
+            np.where(u, st.tm, st_b.tm),
+            np.where(keep, st.w, st_b.w),
+            np.where(u, st.rho_trial, st_b.rho_trial),
+        )
+    if st_b is None or not np.all(np.isfinite(st_b.rho_trial)):
+        _, st_b = unstable(f, T, b)
+    z = _feed(f, T.size)
+    # where the state inside was not tested (a stretched liquid: no pressure to test at), the
+    # incipient phase from Wilson's K-factors at Raoult's bubble or dew pressure
+    liquid_side = a > b
+    ln_psat = f.comps.ln_wilson_k(T, np.ones(T.size))
+    P_b = np.sum(z * np.exp(ln_psat), axis=1)
+    P_d = 1.0 / np.sum(z * np.exp(-ln_psat), axis=1)
+    P0 = np.where(liquid_side, P_b, P_d)
+    lnK = f.comps.ln_wilson_k(T, P0)
+    w_w = z * np.exp(np.where(liquid_side[:, None], lnK, -lnK))
+    w_w /= w_w.sum(axis=1, keepdims=True)
+    rv0, rl0 = f.starter.density_roots(T, P0, w_w)
+    tested = np.isfinite(st_b.rho_trial)
+    w0 = np.where(tested[:, None], st_b.w, w_w)
+    rw0 = np.where(tested, st_b.rho_trial, np.where(liquid_side, rv0, rl0))
+    bd = eq.phase_boundary(f.mixture, T, z, np.sqrt(a * b), w0, rw0)
+    lo, hi = np.minimum(a, b), np.maximum(a, b)
+    ok = bd.converged & (bd.rho_feed >= lo * (1 - 1e-9)) & (bd.rho_feed <= hi * (1 + 1e-9))
+    if np.all(ok):
+        return bd.rho_feed
+    flag = lambda r: unstable(f, T[~ok], r)[0]  # noqa: E731
+    x, y = _bisect(flag, a[~ok], b[~ok], np.zeros((~ok).sum(), bool), BAND_TOL * a[~ok])
+    out = bd.rho_feed.copy()
+    out[~ok] = 0.5 * (x + y)
+    return out
+
+
 def two_phase_band(f: MixtureFluid, T: FloatArray) -> Saturation:
     """At each T [K], the band of overall densities in which the vessel holds two phases.
 
     Returns a Saturation with rho_vapor and rho_liquid the band's lower and upper ends
     [mol/m³] (the dew-point vapour and the bubble-point liquid) and P the pressure at the upper
     end (the bubble pressure) [Pa]; NaN at temperatures where the scan finds no two-phase
-    state (at or above the cricondentherm, or a band narrower than the scan near it).
+    state (near or above the cricondentherm, where the band is narrower than the scan).
     """
     T = np.atleast_1d(np.asarray(T, dtype=float))
     out = np.full(T.size, np.nan)
     grid = density_scan(f)
     TT = np.repeat(T, BAND_POINTS)
     RR = np.tile(grid, T.size)
-    below = np.repeat(T < f.cricondentherm_K, BAND_POINTS)
+    below = np.repeat(T < f.two_phase_limit_K, BAND_POINTS)
     skip = beyond_liquid(f, TT, RR) | ~below
     u = unstable(f, TT, RR, skip)[0].reshape(T.size, BAND_POINTS)
     has = u.any(axis=1)
@@ -267,15 +319,8 @@ def two_phase_band(f: MixtureFluid, T: FloatArray) -> Saturation:
     T_all, T, u = T, T[has], u[has]
     first = u.argmax(axis=1)
     last = BAND_POINTS - 1 - u[:, ::-1].argmax(axis=1)
-    flag = lambda r: unstable(f, T, r)[0]  # noqa: E731
-    lo_a = grid[np.maximum(first - 1, 0)]
-    lo_b = grid[first]
-    d_lo, d_hi = _bisect(flag, lo_a, lo_b, np.zeros(T.size, bool), BAND_TOL * lo_b)
-    rho_v = 0.5 * (d_lo + d_hi)
-    hi_a = grid[last]
-    hi_b = grid[np.minimum(last + 1, BAND_POINTS - 1)]
-    b_lo, b_hi = _bisect(flag, hi_a, hi_b, np.ones(T.size, bool), BAND_TOL * hi_a)
-    rho_l = 0.5 * (b_lo + b_hi)
+    rho_v = _band_end(f, T, grid[np.maximum(first - 1, 0)], grid[first])
+    rho_l = _band_end(f, T, grid[np.minimum(last + 1, BAND_POINTS - 1)], grid[last])
     P = homogeneous(f, T, rho_l)[0]
     P_all, l_all, v_all = out.copy(), out.copy(), out.copy()
     P_all[has], l_all[has], v_all[has] = P, rho_l, rho_v
