@@ -36,6 +36,9 @@ TRIVIAL_TOL = 1e-8
 """Squared distance Σ(wᵢ − zᵢ)² below which a trial phase is the feed itself."""
 TM_UNSTABLE = -1e-9
 """A tangent-plane distance below this marks the state unstable [-]."""
+STARTER_RATIO = 0.7
+"""A root of a model without closed-form roots is taken only within this ratio (either way) of
+the cubic starter's root of the same branch [-]."""
 LNK_MAX = 50.0
 """Bound on |ln K| in the iterations (a component absent from a phase to e⁻⁵⁰) [-]."""
 
@@ -143,17 +146,27 @@ def density_roots(
     if hasattr(model, "density_roots"):
         return model.density_roots(T, P, x)
     if starter is not None:
-        v0, l0 = starter.density_roots(T, P, x)
+        v_pr, l_pr = starter.density_roots(T, P, x)
     else:
         _, rho_r = model.reducing(x)
-        v0, l0 = P / (model.R * T), 2.8 * rho_r
-    v0 = 0.5 * np.minimum(v0, P / (model.R * T))
-    l0 = 1.15 * l0  # Peng–Robinson liquids are up to ~10 % too light
+        v_pr, l_pr = P / (model.R * T), 2.8 * rho_r
+    v0 = 0.5 * np.minimum(v_pr, P / (model.R * T))
+    l0 = 1.15 * l_pr  # Peng–Robinson liquids are up to ~10 % too light
     if guess is not None:
-        v0 = np.where(np.isfinite(guess[0]), guess[0], v0)
-        l0 = np.where(np.isfinite(guess[1]), guess[1], l0)
+        # a guess may only move a start further out: a root found before on a spurious
+        # inner loop must not become the start of the next search
+        near_v = np.isfinite(guess[0]) & (np.abs(np.log(guess[0] / v_pr)) < 0.3)
+        near_l = np.isfinite(guess[1]) & (np.abs(np.log(guess[1] / l_pr)) < 0.3)
+        v0 = np.where(near_v, np.minimum(0.99 * guess[0], v0), v0)
+        l0 = np.where(near_l, np.maximum(1.01 * guess[1], l0), l0)
     rv = _newton_density(model, T, P, x, v0, liquid=False)
     rl = _newton_density(model, T, P, x, l0, liquid=True)
+    # far beyond its range a multiparameter equation can have extra loops whose rising parts
+    # a Newton step may land on; a real root lies within tens of per cent of the starter's
+    # (cubic) root of the same branch, a spurious one does not
+    with np.errstate(invalid="ignore"):
+        rl = np.where(np.abs(np.log(rl / l_pr)) > -np.log(STARTER_RATIO), np.nan, rl)
+        rv = np.where(np.abs(np.log(rv / v_pr)) > -np.log(STARTER_RATIO), np.nan, rv)
     rv = np.where(np.isnan(rv), rl, rv)
     rl = np.where(np.isnan(rl), rv, rl)
     if strict and np.any(np.isnan(rv)):
@@ -238,7 +251,7 @@ def stability(
         a = np.flatnonzero(active)
         if a.size == 0:
             break
-        lnW[a] = np.minimum(lnW[a], 50.0)
+        lnW[a] = np.clip(lnW[a], -LNK_MAX * 10.0, 50.0)
         W = np.exp(lnW[a])
         w = W / W.sum(axis=1, keepdims=True)
         rho, g_v[a], g_l[a] = _stable_pair(model, TT[a], PP[a], w, starter, False, (g_v[a], g_l[a]))

@@ -13,12 +13,13 @@ published: the check then says "review").
 
 from __future__ import annotations
 
+import re
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field
 
 import numpy as np
 
-from fillcheck.errors import InputError, ModelUnavailableError
+from fillcheck.errors import ConvergenceError, InputError, ModelUnavailableError, StateError
 from fillcheck.fluids.accuracy import ModelError, accuracy_for
 from fillcheck.fluids.catalog import FluidData, lookup
 from fillcheck.fluids.mixing import cubic_kij, cubic_kij_matrix
@@ -57,6 +58,16 @@ class MixtureData:
     hazards: frozenset[str]
     user_defined: bool = False
     components: tuple[FluidData, ...] = field(default=(), repr=False)
+
+
+def _short_kij_source(source: str) -> str:
+    """The citation of a kᵢⱼ as a report prints it (the data file keeps the full record)."""
+    page = re.search(r"page (\d+)", source)
+    at = f", p. {page.group(1)}" if page else ""
+    return (
+        f"DECHEMA Chemistry Data Series Vol. VI (1982){at}, as kept in the ChemSep "
+        "Peng–Robinson library (Kooijman, Taylor)"
+    )
 
 
 def mixture_label(names: Sequence[str], z: np.ndarray) -> str:
@@ -143,9 +154,9 @@ class MixtureFluid:
         self.kij_missing = list(missing)
         names = self.component_names
         refs = [
-            f"kij {a}–{b}: {src}"
+            f"kij {a}–{b} = {kij[i, i + 1 + j]:+.4f}: {_short_kij_source(src)}"
             for i, a in enumerate(names)
-            for b in names[i + 1 :]
+            for j, b in enumerate(names[i + 1 :])
             if (src := cubic_kij(a, b)[1])
         ]
         return CubicMixture(kind, comps, kij, refs)
@@ -261,6 +272,38 @@ class MixtureFluid:
         """The two-phase band at each T [K]: bubble pressure, band ends [mol/m³]."""
         return mv.two_phase_band(self, T)
 
+    def bubble_point(self, T: float) -> BoundaryPoint:
+        """The bubble point at T [K]: the mixture as a liquid just forming vapour (above the
+        mixture's critical temperature, the upper dew point of the band)."""
+        return self._boundary(T, upper=True)
+
+    def dew_point(self, T: float) -> BoundaryPoint:
+        """The dew point at T [K]: the mixture as a vapour just forming liquid."""
+        return self._boundary(T, upper=False)
+
+    def _boundary(self, T: float, upper: bool) -> BoundaryPoint:
+        T_arr = _positive(T, "T")
+        if T_arr.ndim != 0:
+            raise InputError("give one temperature")
+        lower, top, has = mv.band_ends(self, np.array([float(T_arr)]))
+        b = top if upper else lower
+        what = "bubble" if upper else "dew"
+        if not has[0]:
+            raise StateError(
+                f"{self.name}: no {what} point at {float(T_arr):.6g} K with the {self.model} "
+                "model: the mixture holds one phase at every density there"
+            )
+        if not b.converged[0]:
+            raise ConvergenceError(f"{self.name}: the {what} point at {float(T_arr):.6g} K")
+        w = b.w[0] / b.w[0].sum()
+        return BoundaryPoint(
+            T=float(T_arr),
+            P=float(b.P[0]),
+            rho=float(b.rho_feed[0] * self.molar_mass),
+            incipient_composition=dict(zip(self.component_names, map(float, w), strict=True)),
+            rho_incipient=float(b.rho_incipient[0] * float(w @ self.molar_masses)),
+        )
+
     def density_molar(self, T: FloatArray, P: FloatArray) -> FloatArray:
         """Overall molar density at T [K], P [Pa]: the stable phase, or the overall density of
         the two phases in equilibrium [mol/m³]."""
@@ -298,6 +341,18 @@ class MixtureFluid:
         if rho is not None:
             return MixtureState(self, T_arr, _positive(rho, "rho") / self.molar_mass)
         return MixtureState(self, T_arr, self.density_molar(T_arr, _positive(P, "P")))
+
+
+@dataclass(frozen=True)
+class BoundaryPoint:
+    """A point of a mixture's phase envelope at T [K]: its pressure P [Pa], the mixture's
+    density rho [kg/m³] there, and the incipient phase's mole fractions and density [kg/m³]."""
+
+    T: float
+    P: float
+    rho: float
+    incipient_composition: dict[str, float]
+    rho_incipient: float
 
 
 class MixtureState:

@@ -248,11 +248,12 @@ def density_scan(f: MixtureFluid) -> np.ndarray:
     return np.geomspace(1e-3 * f._pseudo[1], top, BAND_POINTS)
 
 
-def _band_end(f: MixtureFluid, T: np.ndarray, a: np.ndarray, b: np.ndarray) -> np.ndarray:
-    """The band's end between densities a (one phase) and b (two phases) at each T [mol/m³]:
-    a few bisections on the stability test, then Newton's method on the phase-boundary
-    equations (:func:`~fillcheck.thermo.mixture_equilibrium.phase_boundary`); where that does
-    not converge inside the bracket, bisection to BAND_TOL."""
+def _band_end(f: MixtureFluid, T: np.ndarray, a: np.ndarray, b: np.ndarray) -> eq.Boundary:
+    """The band's end between densities a (one phase) and b (two phases) at each T: a few
+    bisections on the stability test, then Newton's method on the phase-boundary equations
+    (:func:`~fillcheck.thermo.mixture_equilibrium.phase_boundary`); where that does not
+    converge inside the bracket, bisection to BAND_TOL (``converged`` False there, and the
+    incipient phase unknown)."""
     st_b = None
     for _ in range(4):
         mid = np.sqrt(a * b)
@@ -289,12 +290,44 @@ def _band_end(f: MixtureFluid, T: np.ndarray, a: np.ndarray, b: np.ndarray) -> n
     lo, hi = np.minimum(a, b), np.maximum(a, b)
     ok = bd.converged & (bd.rho_feed >= lo * (1 - 1e-9)) & (bd.rho_feed <= hi * (1 + 1e-9))
     if np.all(ok):
-        return bd.rho_feed
+        return bd
     flag = lambda r: unstable(f, T[~ok], r)[0]  # noqa: E731
     x, y = _bisect(flag, a[~ok], b[~ok], np.zeros((~ok).sum(), bool), BAND_TOL * a[~ok])
-    out = bd.rho_feed.copy()
-    out[~ok] = 0.5 * (x + y)
-    return out
+    rho = bd.rho_feed.copy()
+    rho[~ok] = 0.5 * (x + y)
+    P = bd.P.copy()
+    P[~ok] = homogeneous(f, T[~ok], rho[~ok])[0]
+    return eq.Boundary(rho, bd.w, bd.rho_incipient, P, ok)
+
+
+def band_ends(f: MixtureFluid, T: FloatArray) -> tuple[eq.Boundary, eq.Boundary, np.ndarray]:
+    """At each T [K], the lower and upper ends of the two-phase band (the dew point of the
+    mixture as a vapour; its bubble point as a liquid, or its upper dew point above the
+    mixture's critical temperature) and a mask of the temperatures where a band was found.
+    Where none was, the Boundary rows are NaN."""
+    T = np.atleast_1d(np.asarray(T, dtype=float))
+    m, n = T.size, f.z.size
+    nan = np.full(m, np.nan)
+    lower = eq.Boundary(nan.copy(), np.full((m, n), np.nan), nan.copy(), nan.copy(), nan > 0)
+    upper = eq.Boundary(nan.copy(), np.full((m, n), np.nan), nan.copy(), nan.copy(), nan > 0)
+    grid = density_scan(f)
+    TT = np.repeat(T, BAND_POINTS)
+    RR = np.tile(grid, m)
+    below = np.repeat(T < f.two_phase_limit_K, BAND_POINTS)
+    skip = beyond_liquid(f, TT, RR) | ~below
+    u = unstable(f, TT, RR, skip)[0].reshape(m, BAND_POINTS)
+    has = u.any(axis=1)
+    if not np.any(has):
+        return lower, upper, has
+    u = u[has]
+    first = u.argmax(axis=1)
+    last = BAND_POINTS - 1 - u[:, ::-1].argmax(axis=1)
+    lo = _band_end(f, T[has], grid[np.maximum(first - 1, 0)], grid[first])
+    hi = _band_end(f, T[has], grid[np.minimum(last + 1, BAND_POINTS - 1)], grid[last])
+    for whole, part in ((lower, lo), (upper, hi)):
+        for key in ("rho_feed", "w", "rho_incipient", "P", "converged"):
+            getattr(whole, key)[has] = getattr(part, key)
+    return lower, upper, has
 
 
 def two_phase_band(f: MixtureFluid, T: FloatArray) -> Saturation:
@@ -306,22 +339,5 @@ def two_phase_band(f: MixtureFluid, T: FloatArray) -> Saturation:
     state (near or above the cricondentherm, where the band is narrower than the scan).
     """
     T = np.atleast_1d(np.asarray(T, dtype=float))
-    out = np.full(T.size, np.nan)
-    grid = density_scan(f)
-    TT = np.repeat(T, BAND_POINTS)
-    RR = np.tile(grid, T.size)
-    below = np.repeat(T < f.two_phase_limit_K, BAND_POINTS)
-    skip = beyond_liquid(f, TT, RR) | ~below
-    u = unstable(f, TT, RR, skip)[0].reshape(T.size, BAND_POINTS)
-    has = u.any(axis=1)
-    if not np.any(has):
-        return Saturation(T=T, P=out, rho_liquid=out.copy(), rho_vapor=out.copy())
-    T_all, T, u = T, T[has], u[has]
-    first = u.argmax(axis=1)
-    last = BAND_POINTS - 1 - u[:, ::-1].argmax(axis=1)
-    rho_v = _band_end(f, T, grid[np.maximum(first - 1, 0)], grid[first])
-    rho_l = _band_end(f, T, grid[np.minimum(last + 1, BAND_POINTS - 1)], grid[last])
-    P = homogeneous(f, T, rho_l)[0]
-    P_all, l_all, v_all = out.copy(), out.copy(), out.copy()
-    P_all[has], l_all[has], v_all[has] = P, rho_l, rho_v
-    return Saturation(T=T_all, P=P_all, rho_liquid=l_all, rho_vapor=v_all)
+    lower, upper, _ = band_ends(f, T)
+    return Saturation(T=T, P=upper.P, rho_liquid=upper.rho_feed, rho_vapor=lower.rho_feed)
