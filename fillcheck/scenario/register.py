@@ -1,13 +1,16 @@
 """A register of vessels (CSV): one vessel a row, the columns of INTERFACES.md §2.
 
 Cells are the same quantity strings as in a scenario file; an empty cell is an absent value; an
-unknown column is refused by name; errors name the row and the column.
+unknown column is refused by name; errors name the row and the column. A mixture's gas cell
+lists its gases with their mole fractions joined by "+", e.g.
+``argon 82 % + carbon dioxide 18 %`` or ``nitrogen 0.7 + carbon dioxide 0.3``.
 """
 
 from __future__ import annotations
 
 import csv
 import io
+import re
 from pathlib import Path
 
 from fillcheck.errors import InputError
@@ -88,6 +91,8 @@ def register_from_text(text: str, name: str, title: str | None = None) -> Scenar
             for key in path[:-1]:
                 target = target.setdefault(key, {})  # type: ignore[assignment]
             target[path[-1]] = cell  # type: ignore[index]
+        if isinstance(vessel.get("gas"), str) and "+" in str(vessel["gas"]):
+            vessel["gas"] = _mixture_cell(str(vessel["gas"]), name, n)
         for table in ("fill", "storage", "limits"):
             vessel.setdefault(table, {})
         vessels.append(vessel)
@@ -96,3 +101,20 @@ def register_from_text(text: str, name: str, title: str | None = None) -> Scenar
     return scenario_from_dict(
         {"title": title, "vessel": vessels} if title else {"vessel": vessels}, name, FIELDS
     )
+
+
+_PART = re.compile(r"^(?P<gas>.+?)\s+(?P<fraction>[0-9.eE+-]+\s*%?)$")
+
+
+def _mixture_cell(cell: str, name: str, row: int) -> dict[str, str]:
+    """A mixture's gas cell as the scenario's gas table: name -> fraction text."""
+    out: dict[str, str] = {}
+    for part in cell.split("+"):
+        m = _PART.match(part.strip())
+        if m is None:
+            raise InputError(
+                f"{name}: row {row}, column 'gas': '{part.strip()}' is not a gas with its "
+                "mole fraction; write a mixture as e.g. 'argon 82 % + carbon dioxide 18 %'"
+            )
+        out[m.group("gas").strip()] = m.group("fraction").replace(" ", " ")
+    return out

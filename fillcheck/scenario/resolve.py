@@ -178,7 +178,7 @@ class _Where:
     def fail(self, field: str, what: str) -> InputError:
         if self.columns is not None:
             at = f"row {self.row} (vessel '{self.vessel_id}'), " if self.row is not None else ""
-            col = self.columns.get(field, field)
+            col = self.columns.get(field, self.columns.get(field.split(".")[0], field))
             return InputError(f"{self.file}: {at}column '{col}': {what}")
         at = f"vessel '{self.vessel_id}', " if self.vessel_id is not None else ""
         return InputError(f"{self.file}: {at}field '{field}': {what}")
