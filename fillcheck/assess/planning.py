@@ -16,6 +16,7 @@ from fillcheck.assess.charge import largest_safe_density
 from fillcheck.assess.vessel import fill_density_mol
 from fillcheck.errors import InputError
 from fillcheck.scenario.resolve import VesselInput
+from fillcheck.thermo.mixture_vessel import band_ends
 from fillcheck.thermo.vessel import vessel_path
 
 READING_T_UNCERTAINTY_K = 2.0
@@ -105,6 +106,9 @@ def _source(f) -> str:
         return refs + " — REVIEW: the gas is defined by the user; its numbers rest on user data"
     if f.model_error is None:
         return refs + " — REVIEW: this model's error is not known for this gas"
+    missing = getattr(f, "kij_missing", None) if f.model != "reference" else None
+    if missing:
+        return refs + f" — REVIEW: no published kij for {', '.join(missing)} (kij = 0 used)"
     return refs
 
 
@@ -123,14 +127,18 @@ def read_gauge(v: VesselInput, T_ref: float, P_Pa: float, T_K: float) -> Reading
     rho = float(f.density_molar(np.array([T_K]), np.array([P_Pa]))[0])
     Tc = f.model_critical[0]
     if getattr(f, "is_mixture", False) and T_K - READING_T_UNCERTAINTY_K < Tc:
-        dT, dP = READING_T_UNCERTAINTY_K, 0.05
-        TT = np.array([T_K, T_K - dT, T_K + dT, T_K, T_K])
-        PP = np.array([P_Pa, P_Pa, P_Pa, P_Pa * (1 - dP), P_Pa * (1 + dP)])
-        if np.any(f.two_phase_at(TT, PP)):
+        # between the dew pressure 2 K colder and the bubble pressure 2 K warmer (and 5 % of
+        # gauge error) the vessel may hold liquid, as within a pure gas's vapour pressure
+        dT = READING_T_UNCERTAINTY_K
+        dew, bubble, _ = band_ends(f, np.array([T_K - dT, T_K + dT]))
+        lo = np.nan_to_num(dew.P[0], nan=np.inf)
+        hi = np.nan_to_num(bubble.P[1], nan=-np.inf)
+        if 0.95 * lo <= P_Pa <= 1.05 * hi:
             raise InputError(
-                f"vessel '{v.id}': at this reading {f.name} may hold liquid (within "
-                f"{READING_T_UNCERTAINTY_K:.0f} K of the gas temperature and 5 % of gauge "
-                "error), so its pressure does not tell the charge; weigh it"
+                f"vessel '{v.id}': the reading lies between the dew and bubble pressures of "
+                f"{f.name} for a gas temperature within {dT:.0f} K of the one given (and 5 % "
+                "of gauge error), so the vessel may hold liquid and its pressure does not tell "
+                "the charge; weigh it"
             )
     elif T_K - READING_T_UNCERTAINTY_K < Tc:
         Ts = np.clip(

@@ -254,23 +254,20 @@ def _band_end(f: MixtureFluid, T: np.ndarray, a: np.ndarray, b: np.ndarray) -> e
     (:func:`~fillcheck.thermo.mixture_equilibrium.phase_boundary`); where that does not
     converge inside the bracket, bisection to BAND_TOL (``converged`` False there, and the
     incipient phase unknown)."""
-    st_b = None
+    m, n = T.size, f.z.size
+    # the incipient phase found at the two-phase end of the bracket (NaN: none found)
+    st_b = eq.Stability(np.zeros(m, bool), np.zeros(m), np.full((m, n), np.nan), np.full(m, np.nan))
     for _ in range(4):
         mid = np.sqrt(a * b)
         u, st = unstable(f, T, mid)
         a = np.where(u, a, mid)
         b = np.where(u, mid, b)
-        if st_b is None:
-            st_b = st
-        keep = u[:, None]
         st_b = eq.Stability(
-            np.where(u, True, st_b.unstable),
+            st_b.unstable | u,
             np.where(u, st.tm, st_b.tm),
-            np.where(keep, st.w, st_b.w),
+            np.where(u[:, None], st.w, st_b.w),
             np.where(u, st.rho_trial, st_b.rho_trial),
         )
-    if st_b is None or not np.all(np.isfinite(st_b.rho_trial)):
-        _, st_b = unstable(f, T, b)
     z = _feed(f, T.size)
     # where the state inside was not tested (a stretched liquid: no pressure to test at), the
     # incipient phase from Wilson's K-factors at Raoult's bubble or dew pressure
