@@ -646,21 +646,57 @@ class Boundary:
     converged: np.ndarray
 
 
-def _boundary_residual(model, T, z, u):
-    """Residuals in u = (ln w, ln ρ_z, ln ρ_w): equal chemical potentials in (T, ρ) form,
-    ln(wᵢρ_w) + ∂(nαʳ)/∂nᵢ(w, ρ_w) = ln(zᵢρ_z) + ∂(nαʳ)/∂nᵢ(z, ρ_z), equal pressures, Σw = 1."""
-    n = z.shape[1]
-    w = np.exp(u[:, :n])
-    rz, rw = np.exp(u[:, n]), np.exp(u[:, n + 1])
-    dz = model.alphar(T, rz, z)
-    dw = model.alphar(T, rw, w)
-    mz = dz.a00[:, None] + model.dalphar_dn(T, rz, z)
-    mw = dw.a00[:, None] + model.dalphar_dn(T, rw, w / w.sum(axis=1, keepdims=True))
-    r_mu = u[:, :n] + u[:, n + 1][:, None] + mw - np.log(z) - u[:, n][:, None] - mz
-    Pz = rz * model.R * T * (1.0 + dz.a01)
-    Pw = rw * model.R * T * (1.0 + dw.a01)
+def _boundary_equations(model, T, z, ln_w, rz, rw):
+    """Residuals of a phase-boundary point: equal chemical potentials in (T, ρ) form,
+    ln(wᵢρ_w) + ∂(nαʳ)/∂nᵢ(w, ρ_w) = ln(zᵢρ_z) + ∂(nαʳ)/∂nᵢ(z, ρ_z), equal pressures, Σw = 1;
+    and the feed's pressure."""
+    w = np.exp(ln_w)
+    mz, Pz = _chemical_potentials(model, T, rz, z)
+    mw, Pw = _chemical_potentials(model, T, rw, w)
     r_P = (Pw - Pz) / (rz * model.R * T)
-    return np.concatenate([r_mu, r_P[:, None], (w.sum(axis=1) - 1.0)[:, None]], axis=1), Pz
+    return np.concatenate([mw - mz, r_P[:, None], (w.sum(axis=1) - 1.0)[:, None]], axis=1), Pz
+
+
+def _boundary_residual(model, T, z, u):
+    """:func:`_boundary_equations` in u = (ln w, ln ρ_z, ln ρ_w) at fixed T."""
+    n = z.shape[1]
+    return _boundary_equations(model, T, z, u[:, :n], np.exp(u[:, n]), np.exp(u[:, n + 1]))
+
+
+def isochore_boundary(
+    model: MixtureModel,
+    rho_feed: FloatArray,
+    z: FloatArray,
+    T0: FloatArray,
+    w: FloatArray,
+    rho_incipient: FloatArray,
+) -> tuple[np.ndarray, Boundary]:
+    """Where a closed vessel's isochore meets the phase envelope: the temperature [K] at which
+    the feed at density ρ_z [mol/m³] is just able to form an incipient phase, by Newton's
+    method in u = (ln w, ln T, ln ρ_w) from a nearby T0 and incipient phase (as
+    :func:`phase_boundary`, with the temperature unknown instead of the feed's density)."""
+    z = np.asarray(z, dtype=float)
+    rz = np.asarray(rho_feed, dtype=float)
+    n = z.shape[1]
+
+    def residual(u):
+        T = np.exp(u[:, n])
+        r, P = _boundary_equations(model, T, z, u[:, :n], rz, np.exp(u[:, n + 1]))
+        return r, {"P": P}
+
+    u0 = np.concatenate(
+        [
+            np.log(np.clip(w, 1e-300, None)),
+            np.log(np.asarray(T0, float))[:, None],
+            np.log(np.asarray(rho_incipient, float))[:, None],
+        ],
+        axis=1,
+    )
+    u, r, extra = _newton_fd(residual, u0, 1e-11)
+    w_out, T, rw = np.exp(u[:, :n]), np.exp(u[:, n]), np.exp(u[:, n + 1])
+    trivial = (np.max(np.abs(w_out - z), axis=1) < 1e-6) & (np.abs(rw / rz - 1.0) < 1e-6)
+    ok = (np.max(np.abs(r), axis=1) < 1e-9) & ~trivial
+    return T, Boundary(rho_feed=rz, w=w_out, rho_incipient=rw, P=extra["P"], converged=ok)
 
 
 def phase_boundary(

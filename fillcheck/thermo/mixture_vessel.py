@@ -207,6 +207,23 @@ def isochore_crossing(f: MixtureFluid, rho_mol: float, T_lo: float, T_hi: float)
     if i == grid.size - 1:
         kind = "dew" if _incipient_dense(st, i, rho_mol) else "liquid-full"
         return kind, float(T_hi)
+    # Newton on the boundary equations from the last two-phase grid point; where it does not
+    # land inside the grid interval, bisection on the stability test
+    rr = np.array([rho_mol])
+    T_new, bd = eq.isochore_boundary(
+        f.mixture,
+        rr,
+        _feed(f, 1),
+        np.array([0.5 * (grid[i] + grid[i + 1])]),
+        st.w[i : i + 1],
+        st.rho_trial[i : i + 1],
+    )
+    inside = bd.converged[0] and np.isfinite(st.rho_trial[i])
+    inside = inside and grid[i] - 1e-9 <= T_new[0] <= grid[i + 1] + 1e-9
+    if inside:
+        T_cross = float(T_new[0])
+        kind = "dew" if bd.rho_incipient[0] > rho_mol else "liquid-full"
+        return kind, T_cross
     lo, hi = _bisect(
         lambda T: unstable(f, T, np.full(T.size, rho_mol))[0],
         np.array([grid[i]]),
@@ -215,7 +232,7 @@ def isochore_crossing(f: MixtureFluid, rho_mol: float, T_lo: float, T_hi: float)
         np.array([1e-3]),
     )
     T_cross = float(0.5 * (lo[0] + hi[0]))
-    _, st2 = unstable(f, lo, np.array([rho_mol]))
+    _, st2 = unstable(f, lo, rr)
     kind = "dew" if _incipient_dense(st2, 0, rho_mol) else "liquid-full"
     return kind, T_cross
 
