@@ -25,7 +25,7 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from fillcheck.assess.rules import rule_limits
-from fillcheck.assess.uncertainty import REFERENCE_DENSITY_UNCERTAINTY, pressure_uncertainty
+from fillcheck.assess.uncertainty import pressure_uncertainty
 from fillcheck.thermo.vessel import vessel_path
 
 if TYPE_CHECKING:
@@ -144,7 +144,7 @@ def _under(fluid: Fluid, T: np.ndarray, P: np.ndarray) -> np.ndarray:
 def _liquid_u(fluid: Fluid) -> float:
     """Relative uncertainty of the saturated-liquid density [-]."""
     if fluid.is_reference:
-        return REFERENCE_DENSITY_UNCERTAINTY
+        return fluid.model_error.density
     err = fluid.model_error
     return 0.0 if err is None else err.saturated_liquid_density
 

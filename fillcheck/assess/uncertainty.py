@@ -1,6 +1,7 @@
 """How far fillcheck trusts a computed pressure: the model's uncertainty at a vessel state.
 
-- A reference equation of state: its density uncertainty (REFERENCE_DENSITY_UNCERTAINTY) carried
+- A reference equation of state: its density uncertainty (REFERENCE_DENSITY_UNCERTAINTY; for the
+  multi-fluid mixture model, MIXTURE_REFERENCE_UNCERTAINTY of thermo.mixture_fluid) carried
   to the pressure at fixed density by the isotherm's stiffness, u_P = u_ρ · max(1, ∂ln P/∂ln ρ);
   in two phases, the same figure for the saturation pressure. A gas at cylinder pressures has a
   stiffness of 1–3; a liquid-full vessel 10–30, which is why its pressure is so uncertain.
@@ -36,8 +37,8 @@ def pressure_uncertainty(
     if fluid.is_reference:
         d = residual(fluid.eos, T, rho)
         stiff = (1.0 + 2.0 * d.a01 + d.a02) / (1.0 + d.a01)
-        u = REFERENCE_DENSITY_UNCERTAINTY * np.maximum(1.0, stiff)
-        return np.where(two, REFERENCE_DENSITY_UNCERTAINTY, u)
+        u_rho = fluid.model_error.density  # 0.2 % for a pure gas, 0.5 % for a mixture
+        return np.where(two, u_rho, u_rho * np.maximum(1.0, stiff))
     err = fluid.model_error
     if err is None:
         return np.full(T.shape, np.nan)
