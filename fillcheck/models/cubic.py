@@ -226,21 +226,8 @@ class CubicModel:
     # --- temperature part -------------------------------------------------------------------
     def _sqrt_a(self, T: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
         """√aᵢ(T) and its first two T-derivatives, shape (n, *T.shape) [√(Pa·m⁶/mol²), per K]."""
-        Tb = np.asarray(T, dtype=float)[None, ...]
-        sac = self._sqrt_ac.reshape((-1,) + (1,) * (Tb.ndim - 1))
-        Tc = self._Tc.reshape(sac.shape)
-        if self.kind.alpha == "none":
-            q = sac * np.ones_like(Tb)
-            return q, 0.0 * q, 0.0 * q
-        if self.kind.alpha == "rk":
-            q = sac * (Tb / Tc) ** -0.25
-            return q, -0.25 * q / Tb, 0.3125 * q / Tb**2
-        m = self._m.reshape(sac.shape)
-        root = np.sqrt(Tb * Tc)
-        q = sac * (1.0 + m * (1.0 - np.sqrt(Tb / Tc)))
-        q1 = -sac * m / (2.0 * root)
-        q2 = sac * m / (4.0 * Tb * root)
-        return q, q1, q2
+        q = sqrt_attraction(self.kind.alpha, self._sqrt_ac, self._Tc, self._m, T)
+        return tuple(np.moveaxis(x, -1, 0) for x in q)  # type: ignore[return-value]
 
     def attraction(self, T: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
         """The mixture's a(T), da/dT and d²a/dT² [Pa·m⁶/mol², per K, per K²]."""
@@ -318,6 +305,24 @@ def cubic_density_roots(
     v_hi = z_lo * RT / P - c
     v_lo = z_hi * RT / P - c
     return 1.0 / v_lo, 1.0 / v_hi
+
+
+def sqrt_attraction(
+    alpha: str, sqrt_ac: np.ndarray, Tc: np.ndarray, m: np.ndarray, T: FloatArray
+) -> tuple[FloatArray, FloatArray, FloatArray]:
+    """√aᵢ(T) and its first two T-derivatives, components on the last axis, shape S + (n,)
+    [√(Pa·m⁶/mol²), per K, per K²]: constant (van der Waals), √ac (T/Tc)^(−1/4) (Redlich–Kwong)
+    or the Soave form √ac [1 + m(1 − √(T/Tc))]."""
+    Tb = np.asarray(T, dtype=float)[..., None]
+    if alpha == "none":
+        q = sqrt_ac * np.ones_like(Tb)
+        return q, 0.0 * q, 0.0 * q
+    if alpha == "rk":
+        q = sqrt_ac * (Tb / Tc) ** -0.25
+        return q, -0.25 * q / Tb, 0.3125 * q / Tb**2
+    root = np.sqrt(Tb * Tc)
+    q = sqrt_ac * (1.0 + m * (1.0 - np.sqrt(Tb / Tc)))
+    return q, -sqrt_ac * m / (2.0 * root), sqrt_ac * m / (4.0 * Tb * root)
 
 
 def density_function(

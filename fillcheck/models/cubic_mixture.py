@@ -36,6 +36,7 @@ from fillcheck.models.cubic import (
     density_function,
     residual_from_parameters,
     soave_m,
+    sqrt_attraction,
 )
 
 
@@ -90,17 +91,7 @@ class CubicMixture:
     # --- composition-dependent parameters ------------------------------------------------------
     def _sqrt_a(self, T: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
         """√aᵢ(T) and its first two T-derivatives, shape S + (n,)."""
-        Tb = np.asarray(T, dtype=float)[..., None]
-        sac, Tc = self._sqrt_ac, self._Tc
-        if self.kind.alpha == "none":
-            q = sac * np.ones_like(Tb)
-            return q, 0.0 * q, 0.0 * q
-        if self.kind.alpha == "rk":
-            q = sac * (Tb / Tc) ** -0.25
-            return q, -0.25 * q / Tb, 0.3125 * q / Tb**2
-        root = np.sqrt(Tb * Tc)
-        q = sac * (1.0 + self._m * (1.0 - np.sqrt(Tb / Tc)))
-        return q, -sac * self._m / (2.0 * root), sac * self._m / (4.0 * Tb * root)
+        return sqrt_attraction(self.kind.alpha, self._sqrt_ac, self._Tc, self._m, T)
 
     def attraction(self, T: FloatArray, x: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
         """a(T, x), da/dT and d²a/dT² [Pa·m⁶/mol², per K, per K²], shape S."""

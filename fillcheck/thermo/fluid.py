@@ -208,12 +208,7 @@ class Fluid:
         self, *, T: FloatArray, rho: FloatArray | None = None, P: FloatArray | None = None
     ) -> State:
         """The state at T [K] and either overall density rho [kg/m³] or pressure P [Pa]."""
-        if (rho is None) == (P is None):
-            raise InputError("give exactly one of rho (kg/m³) or P (Pa) with T")
-        T_arr = _positive(T, "T")
-        if rho is not None:
-            return State(self, T_arr, _positive(rho, "rho") / self.molar_mass)
-        return State(self, T_arr, self.density_molar(T_arr, _positive(P, "P")))
+        return State(self, *state_inputs(self, T, rho, P))
 
     def density_molar(self, T: FloatArray, P: FloatArray) -> FloatArray:
         """Molar density of the stable phase at T [K], P [Pa] [mol/m³]."""
@@ -312,6 +307,19 @@ class SaturationState:
     P: Any
     rho_liquid: Any
     rho_vapor: Any
+
+
+def state_inputs(
+    fluid: Any, T: FloatArray, rho: FloatArray | None, P: FloatArray | None
+) -> tuple[np.ndarray, np.ndarray]:
+    """Temperature [K] and overall molar density [mol/m³] from T and either rho [kg/m³] or
+    P [Pa] (refused unless exactly one is given, all positive and finite)."""
+    if (rho is None) == (P is None):
+        raise InputError("give exactly one of rho (kg/m³) or P (Pa) with T")
+    T_arr = _positive(T, "T")
+    if rho is not None:
+        return T_arr, _positive(rho, "rho") / fluid.molar_mass
+    return T_arr, fluid.density_molar(T_arr, _positive(P, "P"))
 
 
 def _positive(x: FloatArray, name: str) -> np.ndarray:

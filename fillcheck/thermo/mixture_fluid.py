@@ -30,7 +30,7 @@ from fillcheck.models.mixture_base import FixedComposition, MixtureModel
 from fillcheck.models.registry import has_reference_equation
 from fillcheck.thermo import mixture_equilibrium as eq
 from fillcheck.thermo import mixture_vessel as mv
-from fillcheck.thermo.fluid import CriticalPoint, Validity, _out, _positive
+from fillcheck.thermo.fluid import CriticalPoint, Validity, _out, _positive, state_inputs
 from fillcheck.thermo.saturation import Saturation
 
 MIXTURE_MODEL_IDS = ("reference", "pr-peneloux", "pr")
@@ -335,12 +335,7 @@ class MixtureFluid:
         self, *, T: FloatArray, rho: FloatArray | None = None, P: FloatArray | None = None
     ) -> MixtureState:
         """The state at T [K] and either overall density rho [kg/m³] or pressure P [Pa]."""
-        if (rho is None) == (P is None):
-            raise InputError("give exactly one of rho (kg/m³) or P (Pa) with T")
-        T_arr = _positive(T, "T")
-        if rho is not None:
-            return MixtureState(self, T_arr, _positive(rho, "rho") / self.molar_mass)
-        return MixtureState(self, T_arr, self.density_molar(T_arr, _positive(P, "P")))
+        return MixtureState(self, *state_inputs(self, T, rho, P))
 
 
 @dataclass(frozen=True)
