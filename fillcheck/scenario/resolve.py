@@ -536,6 +536,14 @@ def _rules(
 def _temperature(text: str, field: str, where: _Where, fluid: Fluid) -> float:
     T = where.run(field, units.parse_temperature, text)
     Tt = fluid.T_min_saturation
+    if T < Tt and isinstance(fluid, MixtureFluid):
+        solid = max(fluid.components, key=lambda c: c.triple_point_temperature_K).name
+        raise where.fail(
+            field,
+            f"'{text}' is below the triple point of {solid} ({Tt - 273.15:.1f} °C), which may "
+            "freeze out of the mixture there; fillcheck's mixture models do not cover solids; "
+            "give a higher temperature",
+        )
     if T < Tt:
         raise where.fail(
             field,
