@@ -15,9 +15,11 @@ ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
 from fillcheck.assess.vessel import assess_vessel  # noqa: E402
+from fillcheck.errors import InputError  # noqa: E402
 from fillcheck.models.registry import available_models  # noqa: E402
 from fillcheck.scenario.resolve import load_scenario  # noqa: E402
 from fillcheck.thermo.fluid import Fluid  # noqa: E402
+from fillcheck.thermo.mixture_fluid import MixtureFluid  # noqa: E402
 
 
 def main() -> None:
@@ -36,11 +38,24 @@ def main() -> None:
         sc = load_scenario(path)
         for v in sc.vessels:
             models = [v.fluid.model]
-            cubics = [m for m in available_models(v.fluid.data) if m != "reference"]
-            if v.fluid.model == "reference" and cubics:
-                models.append(cubics[0])
+            mix = getattr(v.fluid, "is_mixture", False)
+            if mix:
+                if v.fluid.model == "reference":
+                    models.append("pr-peneloux")
+            else:
+                cubics = [m for m in available_models(v.fluid.data) if m != "reference"]
+                if v.fluid.model == "reference" and cubics:
+                    models.append(cubics[0])
             for m in models:
-                vi = dataclasses.replace(v, fluid=Fluid(v.fluid.data, m))
+                if mix:
+                    try:
+                        fl = MixtureFluid(v.fluid.components, v.fluid.z, m)
+                    except InputError:  # no fitted Péneloux shift for a component
+                        fl = MixtureFluid(v.fluid.components, v.fluid.z, "pr")
+                        m = "pr"
+                else:
+                    fl = Fluid(v.fluid.data, m)
+                vi = dataclasses.replace(v, fluid=fl)
                 a = assess_vessel(vi, sc.reference_temperature_K)
                 barg = (a.max_state.pressure_Pa - v.atmospheric_pressure_Pa) / 1e5
                 lines.append(
