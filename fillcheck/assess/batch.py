@@ -155,7 +155,9 @@ def _assess_group(
     PP = path.P.reshape(n, k)
     phase = path.phase.reshape(n, k)
     dPdT = path.dP_dT.reshape(n, k)
-    settled = vessel_path(f, np.full(n, T_ref), rho).P
+    at_ref = vessel_path(f, np.full(n, T_ref), rho)
+    settled = at_ref.P
+    liquefied_at_ref = np.isin(at_ref.phase, ("two-phase", "liquid"))
     T_fill = np.array([v.fill_temperature_K or T_ref for v in vs])
     has_fill_T = np.array([v.fill_temperature_K is not None for v in vs])
     fill_P = vessel_path(f, T_fill, rho).P
@@ -209,7 +211,10 @@ def _assess_group(
             np.full(k, np.nan),
         )
         kind, T_cross = crossings[j]
-        liquid_below, full_above = (T_cross, None) if kind == "dew" else (Tc, T_cross)
+        # a dense charge holds liquid up to the critical temperature (for a mixture, up to
+        # Kay's pseudo-critical one, where its one-phase states stop being called liquid)
+        T_top = f.pseudo_critical_K if mixture else Tc
+        liquid_below, full_above = (T_cross, None) if kind == "dew" else (T_top, T_cross)
         if full_above is not None and Tc <= TT[j, 0]:
             full_above = None  # liquid-full only below Tc, and the whole range is above it
         fP = float(fill_P[j]) if has_fill_T[j] else None
@@ -256,14 +261,21 @@ def _assess_group(
             limit_reached_K={"allowable": _num(beyond_allow[j]), "relief": _num(beyond_relief[j])},
         )
         a.saturation_T_K, a.saturation_P_Pa = sat_curve[j]
+        # a mixture filled as a gas that only condenses in the cold is not a liquefied gas
+        a.liquefied = bool(liquefied_at_ref[j]) if mixture else None
         a.findings, a.limits_checked = vessel_findings(v, a, p_j, system)
         if mixture:
             a.composition = dict(zip(f.component_names, map(float, f.z), strict=True))
             a.dropout = dropout_at_coldest(f, path, slice(j * k, (j + 1) * k))
-            a.findings += mixture_findings(f, a.dropout, v.notes, system)
+            a.findings += mixture_findings(f, a.dropout, v.notes, system, a.liquefied)
         liquid = bool(np.any(np.isin(phase[j], ("two-phase", "liquid"))))
         near = any(x.code == "near-critical" for x in a.findings)
-        a.cautions = cautions_for(a.hazards, liquid=liquid, near_critical=near)
+        a.cautions = cautions_for(
+            a.hazards,
+            liquid=liquid if a.liquefied is None else a.liquefied,
+            near_critical=near,
+            cold_dropout=liquid and a.liquefied is False,
+        )
         results.append(a)
     return results
 

@@ -40,7 +40,16 @@ NEAR_CRITICAL = (
 )
 
 
-def cautions_for(hazards: tuple[str, ...], *, liquid: bool, near_critical: bool) -> list[str]:
+COLD_DROPOUT = (
+    "Liquid can condense from this mixture when it is cold: while it is present the gas drawn "
+    "off is not the composition on the label. Keep the cylinder above the temperature the "
+    "report gives, or warm it and let it re-mix (rolling helps) before use."
+)
+
+
+def cautions_for(
+    hazards: tuple[str, ...], *, liquid: bool, near_critical: bool, cold_dropout: bool = False
+) -> list[str]:
     """The cautions for a gas with these hazard classes in this vessel."""
     out = [
         _BY_HAZARD[h]
@@ -49,6 +58,8 @@ def cautions_for(hazards: tuple[str, ...], *, liquid: bool, near_critical: bool)
     ]
     if liquid:
         out.append(LIQUEFIED)
+    if cold_dropout:
+        out.append(COLD_DROPOUT)
     if near_critical:
         out.append(NEAR_CRITICAL)
     return out

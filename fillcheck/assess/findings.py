@@ -188,12 +188,18 @@ def vessel_findings(
         edge = a.liquid_forms_below_K
         if edge is not None and hi_liq < path.T[-1] and edge > hi_liq:
             hi_liq = min(edge, float(path.T[-1]))  # the exact crossing, not the grid point
+        said = (
+            "the mixture was filled as a gas, and while liquid is present the gas drawn off "
+            "is not the composition on the label"
+            if a.liquefied is False
+            else "the gas drawn off changes as liquid evaporates, and a liquefied gas must be "
+            "filled by weight"
+        )
         out.append(
             Finding(
                 "liquid-present",
                 "warning",
-                f"liquid is present from {t(lo_liq)} to {t(hi_liq)}: the gas drawn off "
-                "changes as liquid evaporates, and a liquefied gas must be filled by weight",
+                f"liquid is present from {t(lo_liq)} to {t(hi_liq)}: {said}",
             )
         )
     if np.any(path.phase == "liquid"):

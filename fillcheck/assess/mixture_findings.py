@@ -3,8 +3,10 @@
 A mixture cooled into its two-phase region drops a liquid richer in its heavier components, so
 the gas drawn off from the top of the vessel is leaner in them than the label says, and richer
 again as the liquid evaporates. The finding names the component that condenses (the one whose
-share in the liquid most exceeds its share in the vessel) and gives the compositions of both
-phases at the coldest two-phase state of the storage range.
+share of the liquid over its share of the vapour, K = y/x, is the smallest) and gives the
+compositions of both phases at the coldest two-phase state of the storage range. A liquefied
+mixture (liquid already at the reference temperature, an LPG blend say) is two-phase by
+design; there the finding says what the vapour drawn off is and how it drifts.
 """
 
 from __future__ import annotations
@@ -28,7 +30,7 @@ class Dropout:
 
     temperature_K [K]; liquid_x, vapour_y: mole fractions by component name [-];
     liquid_volume_fraction: the share of the vessel the liquid takes [-];
-    condensing: the component most enriched in the liquid.
+    condensing: the component that favours the liquid most (the smallest K = y/x).
     """
 
     temperature_K: float
@@ -53,7 +55,7 @@ def dropout_at_coldest(f: MixtureFluid, path: MixtureVesselPath, rows: slice) ->
         liquid_x=dict(zip(names, map(float, x), strict=True)),
         vapour_y=dict(zip(names, map(float, y), strict=True)),
         liquid_volume_fraction=float((rho - rv) / (rl - rv)),
-        condensing=names[int(np.argmax(x / f.z))],
+        condensing=names[int(np.argmin(y / x))],  # the smallest K = y/x: the heaviest
     )
 
 
@@ -62,7 +64,11 @@ def _composition(c: dict[str, float]) -> str:
 
 
 def mixture_findings(
-    f: MixtureFluid, dropout: Dropout | None, notes: tuple[str, ...], system: units.UnitSystem
+    f: MixtureFluid,
+    dropout: Dropout | None,
+    notes: tuple[str, ...],
+    system: units.UnitSystem,
+    liquefied: bool | None = None,
 ) -> list[Finding]:
     """The findings a mixture adds to those of every vessel."""
     out: list[Finding] = []
@@ -78,16 +84,25 @@ def mixture_findings(
         )
     if dropout is not None:
         t = units.format_temperature(dropout.temperature_K, system)
-        out.append(
-            Finding(
-                "liquid-dropout",
-                "warning",
+        if liquefied:
+            lightest = max(
+                dropout.vapour_y, key=lambda k: dropout.vapour_y[k] / dropout.liquid_x[k]
+            )
+            said = (
+                f"this liquefied mixture is two-phase by design; at {t} the vapour drawn off "
+                f"is {_composition(dropout.vapour_y)}, richer in {lightest} than the liquid "
+                f"({_composition(dropout.liquid_x)}), and as vapour is drawn the liquid left "
+                f"grows richer in {dropout.condensing}: a vapour-draw appliance receives a "
+                "changing composition"
+            )
+        else:
+            said = (
                 f"at {t} the mixture splits: a liquid rich in {dropout.condensing} takes "
                 f"{dropout.liquid_volume_fraction:.1%} of the vessel (liquid "
                 f"{_composition(dropout.liquid_x)}), and the gas drawn off is "
                 f"{_composition(dropout.vapour_y)}, not the composition on the label; warm "
-                "the vessel and roll or wait before use so the liquid re-mixes",
+                "the vessel and roll or wait before use so the liquid re-mixes"
             )
-        )
+        out.append(Finding("liquid-dropout", "warning", said))
     out.extend(Finding("composition-note", "info", n) for n in notes)
     return out

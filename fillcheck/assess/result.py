@@ -92,6 +92,9 @@ class VesselAssessment:
     """The saturation curve near the storage range, for the chart (empty above Tc)."""
     findings: list[Finding] = field(default_factory=list)
     cautions: list[str] = field(default_factory=list)
+    liquefied: bool | None = None
+    """For a mixture: whether it holds liquid at the reference temperature (a liquefied gas,
+    filled by weight) rather than only in the cold; None for a pure gas."""
     composition: dict[str, float] | None = None
     """A mixture's mole fractions by component (None for a pure gas) [-]."""
     dropout: Any = None

@@ -341,6 +341,11 @@ def _mixture_for(
     if basis == "mass":
         z = z / np.array([d.molar_mass_kg_mol for d in datas])
         z = z / z.sum()
+        notes.append(
+            "entered as mass fractions ("
+            + " + ".join(f"{d.name} {100 * x:.4g} %" for d, x in zip(datas, fractions, strict=True))
+            + " by mass); the report gives the mole fractions these make"
+        )
     elif basis == "volume":
         notes.append(
             "volume % of a gas mixture is read as mole % (exact for ideal gases; the usual "

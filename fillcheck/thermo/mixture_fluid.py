@@ -60,6 +60,31 @@ class MixtureData:
     components: tuple[FluidData, ...] = field(default=(), repr=False)
 
 
+OXYGEN_ENRICHED = 0.235
+"""Mole fraction of oxygen above which a mixture counts as oxidizing here (the usual threshold
+of oxygen enrichment in gas-safety practice; common practice, no source) [-]."""
+
+
+def mixture_hazards(components: Sequence[FluidData], z: np.ndarray) -> frozenset[str]:
+    """The hazard classes a mixture's cautions are printed for: every component's, except that
+    oxygen at or below OXYGEN_ENRICHED (argon with 2 % oxygen, say) does not make the mixture
+    an oxidizer. A simplification: a supplier classifies a mixture by its own rules (ISO 10156
+    for oxidizing and flammable mixtures), and the safety data sheet decides."""
+    out: set[str] = set()
+    for c, x in zip(components, z, strict=True):
+        hz = set(c.hazards)
+        if c.name == "oxygen" and x <= OXYGEN_ENRICHED:
+            hz.discard("oxidizing")
+            hz.add("asphyxiant")
+        out |= hz
+    return frozenset(out)
+
+
+def _publication(source: str) -> str:
+    """The publication part of a catalog source note."""
+    return source.split(" [CoolProp key")[0].split(" (figures")[0].split(":")[0]
+
+
 def _short_kij_source(source: str) -> str:
     """The citation of a kᵢⱼ as a report prints it (the data file keeps the full record)."""
     page = re.search(r"page (\d+)", source)
@@ -111,8 +136,12 @@ class MixtureFluid:
         self.T_min_saturation = max(c.triple_point_temperature_K for c in self.components)
         self.data = MixtureData(
             name=self.name,
-            sources={f"{c.name}: {k}": v for c in self.components for k, v in c.sources.items()},
-            hazards=frozenset().union(*(c.hazards for c in self.components)),
+            sources={  # each figure's source, component by component
+                k: "; ".join(f"{c.name}: {_publication(c.sources[k])}" for c in self.components)
+                for k in self.components[0].sources
+                if all(k in c.sources for c in self.components)
+            },
+            hazards=mixture_hazards(self.components, self.z),
             components=self.components,
         )
         self._pseudo = (float(T_r), float(rho_r))
@@ -252,6 +281,12 @@ class MixtureFluid:
         (mixtures with gas–gas immiscibility, such as helium with xenon at thousands of bar,
         are outside fillcheck's range); above this no stability test is needed."""
         return TWO_PHASE_LIMIT_FACTOR * float(self.comps.Tc.max())
+
+    @property
+    def pseudo_critical_K(self) -> float:
+        """Kay's pseudo-critical temperature [K]: above it a one-phase state is called
+        "supercritical", below it "gas" or "liquid" by the pseudo-critical density."""
+        return self._pseudo[0]
 
     @property
     def model_critical(self) -> tuple[float, float, float]:
