@@ -36,7 +36,7 @@ TRIVIAL_TOL = 1e-8
 """Squared distance Σ(wᵢ − zᵢ)² below which a trial phase is the feed itself."""
 TM_UNSTABLE = -1e-9
 """A tangent-plane distance below this marks the state unstable [-]."""
-STARTER_RATIO = 0.7
+STARTER_RATIO = 0.5
 """A root of a model without closed-form roots is taken only within this ratio (either way) of
 the cubic starter's root of the same branch [-]."""
 LNK_MAX = 50.0
@@ -134,6 +134,7 @@ def density_roots(
     starter: Any = None,
     strict: bool = True,
     guess: tuple[FloatArray, FloatArray] | None = None,
+    fill: bool = True,
 ) -> tuple[FloatArray, FloatArray]:
     """Vapour-like and liquid-like densities at (T, P, x) [mol/m³]; equal where one root.
 
@@ -141,7 +142,8 @@ def density_roots(
     components) whose roots start the Newton iterations of a model without them; ``guess``
     (vapour, liquid; NaN where unknown), the roots of a nearby state, start them closer. Where
     no root is found, ConvergenceError is raised, or NaN returned when not ``strict`` (for
-    trial phases, which may be far outside any state a vessel reaches).
+    trial phases, which may be far outside any state a vessel reaches). Where one branch has
+    no root, it takes the other branch's, unless not ``fill``.
     """
     if hasattr(model, "density_roots"):
         return model.density_roots(T, P, x)
@@ -167,6 +169,8 @@ def density_roots(
     with np.errstate(invalid="ignore"):
         rl = np.where(np.abs(np.log(rl / l_pr)) > -np.log(STARTER_RATIO), np.nan, rl)
         rv = np.where(np.abs(np.log(rv / v_pr)) > -np.log(STARTER_RATIO), np.nan, rv)
+    if not fill:  # the two branches as found (NaN: no root on that branch)
+        return rv, rl
     rv = np.where(np.isnan(rv), rl, rv)
     rl = np.where(np.isnan(rl), rv, rl)
     if strict and np.any(np.isnan(rv)):
@@ -377,7 +381,8 @@ def _split_state(model, T, z, lnK, lnP, starter):
 def _newton_fd(residual, u: np.ndarray, tol: float, admissible=None, max_iter: int = 40):
     """Newton's method, row by row, on ``residual(u) -> (r, extra)`` with a forward-difference
     Jacobian; each step is scaled to at most 0.5 in any unknown and halved (up to eight times)
-    until the largest residual falls and ``admissible(u)`` holds. ``extra`` is a dict of arrays
+    until the sum of squared residuals falls and ``admissible(u)`` holds; converged where the
+    largest residual is below ``tol``. ``extra`` is a dict of arrays
     (one row per state) kept for the accepted iterate. Returns u, r and extra."""
     r, extra = residual(u)
     k = u.shape[1]
@@ -386,6 +391,8 @@ def _newton_fd(residual, u: np.ndarray, tol: float, admissible=None, max_iter: i
         norm = np.where(np.isfinite(norm), norm, np.inf)
         if np.all(norm < tol):
             break
+        merit = np.sum(r * r, axis=1)  # steps are accepted on the 2-norm, converged on max
+        merit = np.where(np.isfinite(merit), merit, np.inf)
         J = np.empty((u.shape[0], k, k))
         for j in range(k):
             du = u.copy()
@@ -403,8 +410,8 @@ def _newton_fd(residual, u: np.ndarray, tol: float, admissible=None, max_iter: i
             u_new = u + lam[:, None] * step
             with np.errstate(invalid="ignore", over="ignore", divide="ignore"):
                 r_new, x_new = residual(u_new)
-            n_new = np.max(np.abs(r_new), axis=1)
-            better = np.isfinite(n_new) & (n_new < norm)
+            n_new = np.sum(r_new * r_new, axis=1)
+            better = np.isfinite(n_new) & (n_new < merit)
             if admissible is not None:
                 better &= admissible(u_new)
             if np.all(better | (norm < tol)):
@@ -515,11 +522,102 @@ def split_TV(
     if start is None:
         start, _ = flash_TP(model, T, P0, z, lnK0, starter, max_iter=8)
     s, good = _split_newton_TV(model, T, rho, z, start)
+    good &= split_ok(s, rho, z, model, T, starter)
     if np.all(good) or not fallback:
         return s
     bad = np.flatnonzero(~good)
+    # a scan of (T, P) flashes finds a start near the answer where the first one was too far
+    scan = _scan_start(model, T[bad], rho[bad], z[bad], lnK0[bad], P0[bad], starter)
+    s2, good2 = _split_newton_TV(model, T[bad], rho[bad], z[bad], scan)
+    good2 &= split_ok(s2, rho[bad], z[bad], model, T[bad], starter)
+    s = _merge(good, s, _scatter(bad, s2, s))
+    good[bad] = good2
+    if np.all(good):
+        return s
+    bad = np.flatnonzero(~good)
     fb = _split_TV_bracketed(model, T[bad], rho[bad], z[bad], lnK0[bad], P0[bad], starter)
-    return _denser_is_liquid(_merge(good, s, _scatter(bad, fb, s)))
+    s3, good3 = _split_newton_TV(model, T[bad], rho[bad], z[bad], fb)
+    good3 &= split_ok(s3, rho[bad], z[bad], model, T[bad], starter)
+    if not np.all(good3):
+        i = bad[int(np.flatnonzero(~good3)[0])]
+        raise ConvergenceError(
+            f"{model.info.name}: no two-phase split found at T = {T[i]:.6g} K, "
+            f"ρ = {rho[i]:.6g} mol/m³, although the one-phase state there is unstable"
+        )
+    return _merge(good, s, _scatter(bad, s3, s))
+
+
+SCAN_FACTORS = np.geomspace(0.25, 2.0, 13)
+"""Pressures tried, as multiples of the first estimate, when the first split fails [-]."""
+
+
+def _scan_start(model, T, rho, z, lnK0, P0, starter) -> Split:
+    """For each state, the (T, P) flash over a range of pressures around P0 whose two distinct
+    phases give the molar volume nearest the vessel's; its split starts Newton's method."""
+    m, k = T.size, SCAN_FACTORS.size
+    TT, zz = np.repeat(T, k), np.repeat(z, k, axis=0)
+    PP = (P0[:, None] * SCAN_FACTORS[None, :]).ravel()
+    s, ok = flash_TP(model, TT, PP, zz, np.repeat(lnK0, k, axis=0), starter, max_iter=60)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        v = s.beta / s.rho_vapor + (1.0 - s.beta) / s.rho_liquid
+        miss = np.abs(np.log(v * np.repeat(rho, k)))
+    miss = np.where(ok & np.isfinite(miss), miss, np.inf).reshape(m, k)
+    best = np.argmin(miss, axis=1) + np.arange(m) * k
+    return Split(*(getattr(s, f)[best] for f in ("P", "beta", "x", "y", "rho_liquid", "rho_vapor")))
+
+
+def split_ok(
+    s: Split,
+    rho: FloatArray,
+    z: FloatArray,
+    model: MixtureModel | None = None,
+    T=None,
+    starter: Any = None,
+) -> np.ndarray:
+    """Which splits are real: finite, 0 ≤ β ≤ 1, two phases of different density, the
+    vessel's volume kept (β/ρ_v + (1 − β)/ρ_l = 1/ρ) and every component's amount
+    (βyᵢ + (1 − β)xᵢ = zᵢ). Given the model (one without closed-form
+    roots), each phase must also sit on the outer root of its own branch at the split's
+    pressure: Newton's method in (T, ρ) variables can otherwise settle on an inner loop."""
+    with np.errstate(invalid="ignore", divide="ignore"):
+        v = s.beta / s.rho_vapor + (1.0 - s.beta) / s.rho_liquid
+        ok = (
+            np.isfinite(v)
+            & (s.beta >= 0.0)
+            & (s.beta <= 1.0)
+            & (np.abs(np.log(s.rho_liquid / s.rho_vapor)) > 1e-6)
+            & (np.abs(v * np.asarray(rho) - 1.0) < 1e-8)
+        )
+        ok &= (
+            np.max(np.abs(s.beta[:, None] * s.y + (1.0 - s.beta[:, None]) * s.x - z), axis=1) < 1e-8
+        )
+    if model is None or hasattr(model, "density_roots") or not np.any(ok):
+        return ok
+    i = np.flatnonzero(ok)
+    Ti = np.asarray(T, dtype=float)[i]
+    # the branch's own root, or the other branch's where this one has none (a fluid with a
+    # single root at that pressure may be reached from either side)
+    rv = density_roots(model, Ti, s.P[i], s.y[i], starter, strict=False)[0]
+    rl = density_roots(model, Ti, s.P[i], s.x[i], starter, strict=False)[1]
+    with np.errstate(invalid="ignore"):
+        outer = (np.abs(s.rho_vapor[i] / rv - 1.0) < 1e-6) & (
+            np.abs(s.rho_liquid[i] / rl - 1.0) < 1e-6
+        )
+    ok[i] = outer
+    return ok
+
+
+def merge_rows(idx: np.ndarray, part: Split, take: np.ndarray, whole: Split) -> Split:
+    """``whole`` with its rows idx replaced by the rows of ``part`` marked in ``take``."""
+    return _merge(
+        np.isin(np.arange(whole.P.size), idx),
+        _scatter(idx, _pick(part, take), whole),
+        whole,
+    )
+
+
+def _pick(s: Split, take: np.ndarray) -> Split:
+    return Split(*(getattr(s, f)[take] for f in ("P", "beta", "x", "y", "rho_liquid", "rho_vapor")))
 
 
 def _merge(mask: np.ndarray, a: Split, b: Split) -> Split:

@@ -76,7 +76,15 @@ def unstable(
         mech = mech | skip
         P = np.where(skip, 1.0, P)
     z = _feed(f, T.size)
-    idx = np.flatnonzero(mech & (skip is None or ~skip))
+    tested = mech & (skip is None or ~skip)
+    idx = np.flatnonzero(tested)
+    if idx.size:
+        # a state lying between the outer (vapour and liquid) roots of its own pressure is on
+        # an inner loop of the isotherm: within the two-phase region, whatever its slope (a
+        # multiparameter equation far outside its range can rise there, even to GPa)
+        inner = _on_inner_loop(f, T[idx], rho[idx], P[idx], z[idx])
+        mech[idx[inner]] = False
+        idx = idx[~inner]
     out = ~mech
     tm = np.full(T.size, -np.inf)
     w = np.full(z.shape, np.nan)
@@ -86,6 +94,32 @@ def unstable(
         out[idx] = st.unstable
         tm[idx], w[idx], rw[idx] = st.tm, st.w, st.rho_trial
     return out, eq.Stability(out, tm, w, rw)
+
+
+def _on_inner_loop(f: MixtureFluid, T, rho, P, z) -> np.ndarray:
+    """Whether one-phase states (T, ρ) with pressure P lie on an inner loop of their isotherm.
+
+    Such a state is denser than the vapour root at its own pressure (or there is none) and
+    lighter than the liquid root (or there is none): no stable one-phase state of the mixture
+    is. Above SCAN_PRESSURE_CAP_PA the test is against the liquid root at the cap instead (a
+    state beyond the cap must be a liquid denser than that root), which catches the huge
+    pressures a multiparameter equation can show far outside its range."""
+    if hasattr(f.mixture, "density_roots"):  # a cubic: no inner loops but its own
+        return np.zeros(T.size, dtype=bool)
+    rv, rl = eq.density_roots(f.mixture, T, P, z, f.starter, strict=False, fill=False)
+    with np.errstate(invalid="ignore"):
+        above_v = np.isnan(rv) | (rho > rv * (1 + 1e-6))
+        below_l = np.isnan(rl) | (rho < rl * (1 - 1e-6))
+        # (no outer root at all: the state itself would have been found on an outer branch)
+        inner = above_v & below_l
+        high = P > SCAN_PRESSURE_CAP_PA
+        if np.any(high):
+            cap = np.full(int(high.sum()), SCAN_PRESSURE_CAP_PA)
+            _, rl_cap = eq.density_roots(
+                f.mixture, T[high], cap, z[high], f.starter, strict=False, fill=False
+            )
+            inner[high] = rho[high] < rl_cap * (1 - 1e-6)
+    return inner
 
 
 def _split(f: MixtureFluid, T: np.ndarray, rho: np.ndarray, st: eq.Stability) -> eq.Split:
@@ -105,7 +139,54 @@ def _split(f: MixtureFluid, T: np.ndarray, rho: np.ndarray, st: eq.Stability) ->
     P_hom, _, _ = homogeneous(f, T, rho)
     P0 = np.where(dense_trial, np.where(P_hom > 0.0, P_hom, P_dew), P_bubble)
     lnK0 = np.where(tested[:, None], lnK_s, f.comps.ln_wilson_k(T, P0))
-    return eq.split_TV(f.mixture, T, rho, z, lnK0, P0, f.starter)
+    s = eq.split_TV(f.mixture, T, rho, z, lnK0, P0, f.starter, fallback=False)
+    good = eq.split_ok(s, rho, z, f.mixture, T, f.starter)
+    if np.all(good):
+        return s
+    # near a pure fluid a (T, P) flash barely splits; start instead from the nearer end of the
+    # two-phase band, whose incipient phase and densities are solved directly
+    bad = np.flatnonzero(~good)
+    s2 = _split_from_band(f, T[bad], rho[bad])
+    ok2 = eq.split_ok(s2, rho[bad], z[bad], f.mixture, T[bad], f.starter)
+    s = eq.merge_rows(bad[ok2], s2, ok2, s)
+    good[bad[ok2]] = True
+    if np.all(good):
+        return s
+    bad = np.flatnonzero(~good)
+    s3 = eq.split_TV(f.mixture, T[bad], rho[bad], z[bad], lnK0[bad], P0[bad], f.starter)
+    return eq.merge_rows(bad, s3, np.ones(bad.size, bool), s)
+
+
+def _split_from_band(f: MixtureFluid, T: np.ndarray, rho: np.ndarray) -> eq.Split:
+    """Closed-vessel splits started from the band end nearer each state (in ln ρ): at the dew
+    end the vapour is the feed and the liquid the incipient phase; at the bubble end the
+    reverse."""
+    lower, upper, _ = band_ends(f, T)
+    z = _feed(f, T.size)
+    dew_side = np.abs(np.log(rho / lower.rho_feed)) <= np.abs(np.log(upper.rho_feed / rho))
+    b = eq.Boundary(
+        *(
+            np.where(dew_side.reshape((-1,) + (1,) * (np.ndim(x) - 1)), x, y)
+            for x, y in zip(
+                (lower.rho_feed, lower.w, lower.rho_incipient, lower.P),
+                (upper.rho_feed, upper.w, upper.rho_incipient, upper.P),
+                strict=True,
+            )
+        ),
+        converged=np.where(dew_side, lower.converged, upper.converged),
+    )
+    w = b.w / b.w.sum(axis=1, keepdims=True)
+    feed_lighter = b.rho_feed < b.rho_incipient
+    start = eq.Split(
+        P=b.P,
+        beta=np.full(T.size, 0.5),
+        x=np.where(feed_lighter[:, None], w, z),
+        y=np.where(feed_lighter[:, None], z, w),
+        rho_liquid=np.where(feed_lighter, b.rho_incipient, b.rho_feed),
+        rho_vapor=np.where(feed_lighter, b.rho_feed, b.rho_incipient),
+    )
+    s, _ = eq._split_newton_TV(f.mixture, T, rho, z, start)
+    return s
 
 
 def mixture_vessel_path(f: MixtureFluid, T: FloatArray, rho_mol: FloatArray) -> MixtureVesselPath:
