@@ -41,7 +41,6 @@ import numpy as np
 import pytest
 
 import fillcheck
-from fillcheck.errors import ConvergenceError
 from fillcheck.fluids.catalog import lookup
 from fillcheck.fluids.mixing import cubic_kij
 from fillcheck.models.cubic import R_CUBIC, CubicComponent
@@ -474,25 +473,12 @@ def test_states_in_spurious_loop_window_split(case) -> None:
 
 
 #: (composition, T [K], overall ρ [mol/m³]) inside the two-phase region where vessel_path once
-#: returned degenerate splits (β = 0, x = y = z, equal or NaN phase densities). The two
-#: near-pure cases still find no split: fillcheck now refuses them with ConvergenceError rather
-#: than returning a false one.
-NEAR_PURE = pytest.mark.xfail(
-    strict=True,
-    raises=ConvergenceError,
-    reason=(
-        "near a pure fluid (99.9 % propane at 250 K, 222 mol/m³; 95 % n-butane at 233.15 K, "
-        "87 mol/m³) Newton's method on the closed-vessel split in (T, ρ) variables does not "
-        "converge and the bracketed fallback finds no split: the check stops with "
-        "ConvergenceError (CoolProp splits both)"
-    ),
-)
+#: returned degenerate splits (β = 0, x = y = z, equal or NaN phase densities), two of them near
+#: a pure fluid.
 DEGENERATE = [
     pytest.param((_comp(argon=0.3, carbon_dioxide=0.7), 260.0, 6000.0), id="argon-co2"),
-    pytest.param((_comp(propane=0.05, n_butane=0.95), 233.15, 87.0), marks=NEAR_PURE, id="nc4-95"),
-    pytest.param(
-        (_comp(propane=0.999, n_butane=0.001), 250.0, 222.0), marks=NEAR_PURE, id="c3-999"
-    ),
+    pytest.param((_comp(propane=0.05, n_butane=0.95), 233.15, 87.0), id="nc4-95"),
+    pytest.param((_comp(propane=0.999, n_butane=0.001), 250.0, 222.0), id="c3-999"),
     pytest.param((_comp(propane=0.9, n_butane=0.1), 233.15, 328.83), id="c3-90"),
 ]
 

@@ -373,8 +373,11 @@ def _split_state(model, T, z, lnK, lnP, starter):
     y = K * x
     y = y / y.sum(axis=1, keepdims=True)
     P = np.exp(lnP)
-    rl = stable_density(model, T, P, x, starter, strict=False)
-    rv = stable_density(model, T, P, y, starter, strict=False)
+    # each phase on its own branch (the usual flash convention): on the lowest-Gibbs root a
+    # vapour composition just inside its dew pressure would be taken as a liquid, and the
+    # iteration would collapse onto the feed
+    rl = density_roots(model, T, P, x, starter, strict=False)[1]
+    rv = density_roots(model, T, P, y, starter, strict=False)[0]
     return Split(P=P, beta=beta, x=x, y=y, rho_liquid=rl, rho_vapor=rv)
 
 
@@ -545,6 +548,60 @@ def split_TV(
             f"ρ = {rho[i]:.6g} mol/m³, although the one-phase state there is unstable"
         )
     return _merge(good, s, _scatter(bad, s3, s))
+
+
+def split_in_band(
+    model: MixtureModel,
+    T: FloatArray,
+    rho: FloatArray,
+    z: FloatArray,
+    P_lo: FloatArray,
+    P_hi: FloatArray,
+    lnK0: FloatArray,
+    starter: Any = None,
+) -> Split:
+    """The closed-vessel split between the band's end pressures at T: P_lo at the lower end
+    (dew) and P_hi at the upper end [Pa]. The pressure of the two-phase states of one
+    composition rises with the overall density across the band, so the split is bracketed; the
+    Illinois variant of regula falsi on ln P with a (T, P) flash at each step (K-factors carried
+    from step to step) finds it, then Newton's method in (T, ρ) variables polishes it."""
+    T, rho = np.asarray(T, dtype=float), np.asarray(rho, dtype=float)
+    v_t = 1.0 / rho
+    a, b = np.log(np.asarray(P_lo, float)), np.log(np.asarray(P_hi, float))
+    lnK = np.array(lnK0, dtype=float)
+
+    def f(lnP: np.ndarray) -> tuple[np.ndarray, Split]:
+        s, _ = flash_TP(model, T, np.exp(lnP), z, lnK, starter, max_iter=100)
+        with np.errstate(invalid="ignore", divide="ignore"):
+            v = s.beta / s.rho_vapor + (1.0 - s.beta) / s.rho_liquid
+        return np.clip(s.beta, 0.0, 1.0) * 0 + (v / v_t - 1.0), s
+
+    fa = np.full(T.size, 1.0)  # above the vessel's volume at the lower end (by construction)
+    fb = np.full(T.size, -1.0)
+    side = np.zeros(T.size)
+    s = None
+    for _ in range(60):
+        c = np.where(
+            np.isfinite(fa) & np.isfinite(fb) & (fa != fb),
+            (a * fb - b * fa) / (fb - fa),
+            0.5 * (a + b),
+        )
+        c = np.where((c > np.minimum(a, b)) & (c < np.maximum(a, b)), c, 0.5 * (a + b))
+        fc, s = f(c)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            ok = np.isfinite(np.log(s.y / s.x)).all(axis=1)
+            lnK = np.where(ok[:, None], np.log(s.y / s.x), lnK)
+        fc = np.where(np.isfinite(fc), fc, 0.0)
+        if np.all((np.abs(fc) < 1e-10) | (np.abs(b - a) < 1e-12)):
+            break
+        low = fc > 0.0
+        a, fa = np.where(low, c, a), np.where(low, fc, fa)
+        b, fb = np.where(low, b, c), np.where(low, fb, fc)
+        fb = np.where(low & (side == 1), 0.5 * fb, fb)
+        fa = np.where(~low & (side == -1), 0.5 * fa, fa)
+        side = np.where(low, 1, -1)
+    polished, good = _split_newton_TV(model, T, rho, z, s)
+    return _merge(good, polished, s)
 
 
 SCAN_FACTORS = np.geomspace(0.25, 2.0, 13)

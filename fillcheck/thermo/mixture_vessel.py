@@ -185,8 +185,18 @@ def _split_from_band(f: MixtureFluid, T: np.ndarray, rho: np.ndarray) -> eq.Spli
         rho_liquid=np.where(feed_lighter, b.rho_incipient, b.rho_feed),
         rho_vapor=np.where(feed_lighter, b.rho_feed, b.rho_incipient),
     )
-    s, _ = eq._split_newton_TV(f.mixture, T, rho, z, start)
-    return s
+    s, good = eq._split_newton_TV(f.mixture, T, rho, z, start)
+    good &= eq.split_ok(s, rho, z, f.mixture, T, f.starter)
+    if np.all(good):
+        return s
+    # Newton did not converge: bracket the split's pressure between the band's end pressures
+    bad = np.flatnonzero(~good)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        lnK = np.log(start.y[bad] / start.x[bad])
+    s2 = eq.split_in_band(
+        f.mixture, T[bad], rho[bad], z[bad], lower.P[bad], upper.P[bad], lnK, f.starter
+    )
+    return eq.merge_rows(bad, s2, np.ones(bad.size, bool), s)
 
 
 def mixture_vessel_path(f: MixtureFluid, T: FloatArray, rho_mol: FloatArray) -> MixtureVesselPath:
