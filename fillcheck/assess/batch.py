@@ -319,16 +319,20 @@ def _validity_text(f: Fluid, system: units.UnitSystem) -> str:
 
 
 def _saturation_curve(f: Fluid, TT: np.ndarray) -> list[tuple[np.ndarray, np.ndarray]]:
-    """Per vessel, the saturation curve over its range widened by 10 K, below Tc [K, Pa]
-    (for a mixture, its bubble-point curve)."""
+    """Per vessel, the saturation curve over its range widened by 10 K, below Tc [K, Pa].
+
+    A mixture has no single saturation curve; its bubble-point curve would cost a two-phase
+    band scan per point, more than the rest of its check, so its chart shows the vessel's path
+    (with the liquid-present part marked) without one."""
+    if getattr(f, "is_mixture", False):
+        return [(np.zeros(0), np.zeros(0))] * len(TT)
     Tc = f.model_critical[0]
     lo = max(f.T_min_saturation, float(TT[:, 0].min()) - 10.0)
     hi = min(Tc - 1e-3, float(TT[:, -1].max()) + 10.0)
     if hi <= lo:
         return [(np.zeros(0), np.zeros(0))] * len(TT)
-    T = np.linspace(lo, hi, 8 if getattr(f, "is_mixture", False) else 80)
+    T = np.linspace(lo, hi, 80)
     P = f.saturation_molar(T).P
-    T, P = T[np.isfinite(P)], P[np.isfinite(P)]  # a mixture: only where a band was found
     out = []
     for row in TT:
         m = (T >= row[0] - 10.0) & (T <= row[-1] + 10.0)
