@@ -60,7 +60,7 @@ def vessel_chart_svg(
             color="#6a6a6a",
             lw=1.2,
             ls="--",
-            label="saturation curve" if v.composition is None else "bubble-point curve",
+            label="saturation curve",
         )
     liquid = np.isin(v.path_phase, ("two-phase", "liquid"))
     ax.plot(tx(T), px(P, atm), color="#1f4e8c", lw=2.0, label="vessel path")
