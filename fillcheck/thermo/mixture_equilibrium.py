@@ -574,7 +574,7 @@ def split_in_band(
         s, _ = flash_TP(model, T, np.exp(lnP), z, lnK, starter, max_iter=100)
         with np.errstate(invalid="ignore", divide="ignore"):
             v = s.beta / s.rho_vapor + (1.0 - s.beta) / s.rho_liquid
-        return np.clip(s.beta, 0.0, 1.0) * 0 + (v / v_t - 1.0), s
+        return v / v_t - 1.0, s
 
     fa = np.full(T.size, 1.0)  # above the vessel's volume at the lower end (by construction)
     fb = np.full(T.size, -1.0)

@@ -359,12 +359,6 @@ class MixtureFluid:
             rho[idx] = np.where(inside, 1.0 / v, rho[idx])
         return rho.reshape(shape)
 
-    def two_phase_at(self, T: FloatArray, P: FloatArray) -> np.ndarray:
-        """Whether the mixture splits into two phases at T [K] and P [Pa]."""
-        T, P = np.broadcast_arrays(np.asarray(T, dtype=float), np.asarray(P, dtype=float))
-        rho = self.density_molar(T, P)
-        return self.vessel_path(T.ravel(), rho.ravel()).phase.reshape(T.shape) == "two-phase"
-
     # --- states ------------------------------------------------------------------------------
     def state(
         self, *, T: FloatArray, rho: FloatArray | None = None, P: FloatArray | None = None
