@@ -16,9 +16,11 @@ Fundamentals & Computational Aspects*, 2nd ed., Tie-Line Publications:
   dᵢ − 1) < 0;
 - the split at (T, P): Rachford–Rice (1952) with successive substitution of the K-factors
   (ch. 10), the negative flash of Whitson, Michelsen (1989), Fluid Phase Equilib. 53, 51;
-- the split of a closed vessel at (T, ρ): the pressure at which the (T, P) split's molar volume
-  equals the vessel's, by the Illinois variant of regula falsi in ln P (the volume of the
-  equilibrium system falls monotonically with pressure at fixed T and overall composition).
+- the split of a closed vessel at (T, ρ): Newton's method in (T, ρ) variables on equal
+  chemical potentials, equal pressures and the vessel's component and volume balances; failing
+  that, the pressure at which the (T, P) split's molar volume equals the vessel's, bracketed
+  between the two-phase band's end pressures (the volume of the equilibrium system falls
+  monotonically with pressure at fixed T and overall composition).
 """
 
 from __future__ import annotations
@@ -507,47 +509,22 @@ def split_TV(
     P0: FloatArray,
     starter: Any = None,
     start: Split | None = None,
-    fallback: bool = True,
-) -> Split:
+) -> tuple[Split, np.ndarray]:
     """The two-phase state of closed vessels at T [K], overall density ρ [mol/m³], feed z.
 
     ``lnK0`` (vapour over liquid) and ``P0`` [Pa] start the iterations: a few successive
     substitutions of a (T, P) flash at P0, then Newton's method in (T, ρ) variables
-    (:func:`_split_newton_TV`). ``start``, a split of nearby states, replaces the successive
-    substitutions. States where Newton does not converge, or converges to a single phase, are
-    solved by the bracketing method instead (unless not ``fallback``: then β outside [0, 1]
-    marks a state that does not split). Raises ConvergenceError where neither reproduces the
-    vessel's volume.
+    (:func:`_split_newton_TV`); ``start``, a split of nearby states, replaces the successive
+    substitutions. Returns the splits and a mask of those that pass :func:`split_ok`; the
+    others need a better start (the closed-vessel path starts them from the two-phase band's
+    ends and brackets them with :func:`split_in_band`).
     """
     T, rho, z = np.asarray(T, dtype=float), np.asarray(rho, dtype=float), np.asarray(z, float)
-    lnK0 = np.array(lnK0, dtype=float)
-    P0 = np.asarray(P0, dtype=float) * np.ones(T.size)
     if start is None:
-        start, _ = flash_TP(model, T, P0, z, lnK0, starter, max_iter=8)
+        P0 = np.asarray(P0, dtype=float) * np.ones(T.size)
+        start, _ = flash_TP(model, T, P0, z, np.array(lnK0, dtype=float), starter, max_iter=8)
     s, good = _split_newton_TV(model, T, rho, z, start)
-    good &= split_ok(s, rho, z, model, T, starter)
-    if np.all(good) or not fallback:
-        return s
-    bad = np.flatnonzero(~good)
-    # a scan of (T, P) flashes finds a start near the answer where the first one was too far
-    scan = _scan_start(model, T[bad], rho[bad], z[bad], lnK0[bad], P0[bad], starter)
-    s2, good2 = _split_newton_TV(model, T[bad], rho[bad], z[bad], scan)
-    good2 &= split_ok(s2, rho[bad], z[bad], model, T[bad], starter)
-    s = _merge(good, s, _scatter(bad, s2, s))
-    good[bad] = good2
-    if np.all(good):
-        return s
-    bad = np.flatnonzero(~good)
-    fb = _split_TV_bracketed(model, T[bad], rho[bad], z[bad], lnK0[bad], P0[bad], starter)
-    s3, good3 = _split_newton_TV(model, T[bad], rho[bad], z[bad], fb)
-    good3 &= split_ok(s3, rho[bad], z[bad], model, T[bad], starter)
-    if not np.all(good3):
-        i = bad[int(np.flatnonzero(~good3)[0])]
-        raise ConvergenceError(
-            f"{model.info.name}: no two-phase split found at T = {T[i]:.6g} K, "
-            f"ρ = {rho[i]:.6g} mol/m³, although the one-phase state there is unstable"
-        )
-    return _merge(good, s, _scatter(bad, s3, s))
+    return s, good & split_ok(s, rho, z, model, T, starter)
 
 
 def split_in_band(
@@ -602,25 +579,6 @@ def split_in_band(
         side = np.where(low, 1, -1)
     polished, good = _split_newton_TV(model, T, rho, z, s)
     return _merge(good, polished, s)
-
-
-SCAN_FACTORS = np.geomspace(0.25, 2.0, 13)
-"""Pressures tried, as multiples of the first estimate, when the first split fails [-]."""
-
-
-def _scan_start(model, T, rho, z, lnK0, P0, starter) -> Split:
-    """For each state, the (T, P) flash over a range of pressures around P0 whose two distinct
-    phases give the molar volume nearest the vessel's; its split starts Newton's method."""
-    m, k = T.size, SCAN_FACTORS.size
-    TT, zz = np.repeat(T, k), np.repeat(z, k, axis=0)
-    PP = (P0[:, None] * SCAN_FACTORS[None, :]).ravel()
-    s, ok = flash_TP(model, TT, PP, zz, np.repeat(lnK0, k, axis=0), starter, max_iter=60)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        v = s.beta / s.rho_vapor + (1.0 - s.beta) / s.rho_liquid
-        miss = np.abs(np.log(v * np.repeat(rho, k)))
-    miss = np.where(ok & np.isfinite(miss), miss, np.inf).reshape(m, k)
-    best = np.argmin(miss, axis=1) + np.arange(m) * k
-    return Split(*(getattr(s, f)[best] for f in ("P", "beta", "x", "y", "rho_liquid", "rho_vapor")))
 
 
 def split_ok(
@@ -708,82 +666,6 @@ def _denser_is_liquid(s: Split) -> Split:
         rho_liquid=np.where(swap, s.rho_vapor, s.rho_liquid),
         rho_vapor=np.where(swap, s.rho_liquid, s.rho_vapor),
     )
-
-
-def _split_TV_bracketed(
-    model: MixtureModel,
-    T: FloatArray,
-    rho: FloatArray,
-    z: FloatArray,
-    lnK0: FloatArray,
-    P0: FloatArray,
-    starter: Any = None,
-) -> Split:
-    """The closed-vessel split by regula falsi on ln P around (T, P) flashes (slow, sure)."""
-    T, rho = np.asarray(T, dtype=float), np.asarray(rho, dtype=float)
-    m = T.size
-    v_target = 1.0 / rho
-    lnK = np.array(lnK0, dtype=float)
-
-    def volume(P: np.ndarray, lnK0: np.ndarray, idx: np.ndarray) -> tuple[np.ndarray, Split, Any]:
-        s, ok = flash_TP(model, T[idx], P, z[idx], lnK0, starter)
-        v = s.beta / s.rho_vapor + (1.0 - s.beta) / s.rho_liquid
-        single = stable_density(model, T[idx], P, z[idx], starter, strict=False)
-        v = np.where(ok, v, 1.0 / single)
-        return v - v_target[idx], s, ok
-
-    idx = np.arange(m)
-    P0 = np.asarray(P0, dtype=float)
-    f0, s0, _ = volume(P0, lnK, idx)
-    lnK = np.where(np.isfinite(np.log(s0.y / s0.x)), np.log(s0.y / s0.x), lnK)
-    # bracket in ln P: f falls as P rises
-    lnP_lo, lnP_hi = np.log(P0), np.log(P0)
-    f_lo, f_hi = f0.copy(), f0.copy()
-    for _ in range(60):
-        need_lo = f_lo < 0.0
-        need_hi = f_hi > 0.0
-        if not (np.any(need_lo) or np.any(need_hi)):
-            break
-        for need, side in ((need_lo, -1), (need_hi, 1)):
-            i = np.flatnonzero(need)
-            if i.size == 0:
-                continue
-            lnP_new = (lnP_lo[i] if side < 0 else lnP_hi[i]) + side * 0.3
-            f_new, _s, _ = volume(np.exp(lnP_new), lnK[i], i)
-            if side < 0:
-                lnP_lo[i], f_lo[i] = lnP_new, f_new
-            else:
-                lnP_hi[i], f_hi[i] = lnP_new, f_new
-    if np.any(f_lo < 0.0) or np.any(f_hi > 0.0):
-        i = int(np.flatnonzero((f_lo < 0.0) | (f_hi > 0.0))[0])
-        raise ConvergenceError(
-            f"closed-vessel phase split: no pressure bracket at T = {T[i]:.6g} K, "
-            f"ρ = {rho[i]:.6g} mol/m³"
-        )
-    side = np.zeros(m)
-    split = s0
-    for _ in range(200):
-        lnP = (lnP_lo * f_hi - lnP_hi * f_lo) / (f_hi - f_lo)
-        lnP = np.where(np.isfinite(lnP), lnP, 0.5 * (lnP_lo + lnP_hi))
-        f, split, _ = volume(np.exp(lnP), lnK, idx)
-        lnK = np.where(np.isfinite(np.log(split.y / split.x)), np.log(split.y / split.x), lnK)
-        if np.all((np.abs(f) < 1e-11 * v_target) | (lnP_hi - lnP_lo < 1e-13)):
-            break
-        lower = f > 0.0
-        lnP_lo = np.where(lower, lnP, lnP_lo)
-        lnP_hi = np.where(lower, lnP_hi, lnP)
-        f_hi = np.where(lower & (side == -1), 0.5 * f_hi, f_hi)
-        f_lo = np.where(~lower & (side == 1), 0.5 * f_lo, f_lo)
-        f_lo = np.where(lower, f, f_lo)
-        f_hi = np.where(lower, f_hi, f)
-        side = np.where(lower, -1, 1)
-    else:
-        i = int(np.argmax(np.abs(f) / v_target))
-        raise ConvergenceError(
-            f"closed-vessel phase split did not converge at T = {T[i]:.6g} K, "
-            f"ρ = {rho[i]:.6g} mol/m³"
-        )
-    return split
 
 
 # --- phase boundaries ------------------------------------------------------------------------

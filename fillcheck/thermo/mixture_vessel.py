@@ -139,8 +139,7 @@ def _split(f: MixtureFluid, T: np.ndarray, rho: np.ndarray, st: eq.Stability) ->
     P_hom, _, _ = homogeneous(f, T, rho)
     P0 = np.where(dense_trial, np.where(P_hom > 0.0, P_hom, P_dew), P_bubble)
     lnK0 = np.where(tested[:, None], lnK_s, f.comps.ln_wilson_k(T, P0))
-    s = eq.split_TV(f.mixture, T, rho, z, lnK0, P0, f.starter, fallback=False)
-    good = eq.split_ok(s, rho, z, f.mixture, T, f.starter)
+    s, good = eq.split_TV(f.mixture, T, rho, z, lnK0, P0, f.starter)
     if np.all(good):
         return s
     # near a pure fluid a (T, P) flash barely splits; start instead from the nearer end of the
@@ -148,13 +147,13 @@ def _split(f: MixtureFluid, T: np.ndarray, rho: np.ndarray, st: eq.Stability) ->
     bad = np.flatnonzero(~good)
     s2 = _split_from_band(f, T[bad], rho[bad])
     ok2 = eq.split_ok(s2, rho[bad], z[bad], f.mixture, T[bad], f.starter)
-    s = eq.merge_rows(bad[ok2], s2, ok2, s)
-    good[bad[ok2]] = True
-    if np.all(good):
-        return s
-    bad = np.flatnonzero(~good)
-    s3 = eq.split_TV(f.mixture, T[bad], rho[bad], z[bad], lnK0[bad], P0[bad], f.starter)
-    return eq.merge_rows(bad, s3, np.ones(bad.size, bool), s)
+    if not np.all(ok2):
+        i = bad[int(np.flatnonzero(~ok2)[0])]
+        raise ConvergenceError(
+            f"{f.model_name}: no two-phase split of {f.name} found at T = {T[i]:.6g} K, "
+            f"ρ = {rho[i]:.6g} mol/m³, although the one-phase state there is unstable"
+        )
+    return eq.merge_rows(bad, s2, ok2, s)
 
 
 def _split_from_band(f: MixtureFluid, T: np.ndarray, rho: np.ndarray) -> eq.Split:
@@ -252,17 +251,7 @@ def _two_phase_slope(f: MixtureFluid, T: np.ndarray, rho: np.ndarray, s: eq.Spli
         np.tile(s.rho_liquid, 2),
         np.tile(s.rho_vapor, 2),
     )
-    w = eq.split_TV(
-        f.mixture,
-        TT,
-        rr,
-        z,
-        np.log(both.y / both.x),
-        both.P,
-        f.starter,
-        start=both,
-        fallback=False,
-    )
+    w, _ = eq.split_TV(f.mixture, TT, rr, z, np.log(both.y / both.x), both.P, f.starter, start=both)
     P = np.where((w.beta >= 0.0) & (w.beta <= 1.0), w.P, homogeneous(f, TT, rr)[0])
     k = T.size
     return (P[k:] - P[:k]) / (2.0 * DT_SLOPE_K)
