@@ -330,7 +330,11 @@ def parse_fraction(text: str | float | int) -> float:
         Fraction [-], within [0, 1].
     """
     if isinstance(text, numbers.Real) and not isinstance(text, bool):
-        value, q = float(text), f"'{text}'"
+        shown = str(text) if len(str(text)) <= 40 else f"{str(text)[:39]}…"
+        try:
+            value, q = float(text), f"'{shown}'"
+        except OverflowError:  # an integer beyond any float: far outside 0 to 1
+            value, q = (2.0 if text > 0 else -2.0), f"'{shown}'"
         if not math.isfinite(value):
             raise UnitError(f"{q} is not a finite number; write e.g. '0.18' or '18 %'")
     else:

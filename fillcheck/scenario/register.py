@@ -14,7 +14,10 @@ import re
 from pathlib import Path
 
 from fillcheck.errors import InputError
+from fillcheck.scenario.bounds import TEXT_CHARS_MAX
 from fillcheck.scenario.resolve import Scenario, scenario_from_dict
+from fillcheck.scenario.source import read_input
+from fillcheck.scenario.text import neutralise
 
 COLUMNS: dict[str, str] = {
     "id": "id",
@@ -40,27 +43,58 @@ FIELDS = {v: k for k, v in COLUMNS.items()}
 def load_register(path: str | Path, title: str | None = None) -> Scenario:
     """Read and validate a CSV register of vessels."""
     p = Path(path)
-    if not p.exists():
-        raise InputError(f"{path}: no such file; give the path of a register (.csv) file")
-    if p.is_dir():
-        raise InputError(f"{path}: is a folder; give the path of a register (.csv) file")
-    try:
-        text = p.read_text(encoding="utf-8-sig")
-    except UnicodeDecodeError:
-        raise InputError(
-            f"{p.name}: is not a UTF-8 text file; save the register as UTF-8 CSV"
-        ) from None
+    text = read_input(path, "register (.csv)", "save the register as UTF-8 CSV")
     return register_from_text(text, p.name, title)
+
+
+def _rows(text: str, name: str) -> list[list[str]]:
+    """The CSV records of ``text``, every cell stripped and neutralised; a cell longer than
+    TEXT_CHARS_MAX, or text that is not CSV, is refused naming the row (and the column)."""
+    name = neutralise(name)
+    rows: list[list[str]] = []
+    # the module-wide field limit is lifted while reading (a cell can be no longer than the
+    # text), so that a long cell is refused below by its row and column, not by the csv module
+    old = csv.field_size_limit()
+    csv.field_size_limit(max(old, len(text) + 1))
+    try:
+        reader = csv.reader(io.StringIO(text))
+        try:
+            for row in reader:
+                rows.append(row)
+        except csv.Error as exc:
+            raise InputError(
+                f"{name}: row {len(rows) + 1}: is not valid CSV ({neutralise(str(exc))}); "
+                "check the quotes in that row"
+            ) from None
+    finally:
+        csv.field_size_limit(old)
+    header = [h.strip() if len(h) <= TEXT_CHARS_MAX else "" for h in (rows[0] if rows else [])]
+    id_at = header.index("id") if "id" in header else None
+    for n, row in enumerate(rows, start=1):
+        for i, cell in enumerate(row):
+            if len(cell) > TEXT_CHARS_MAX:
+                col = f"column {i + 1}"
+                if n > 1 and i < len(header) and header[i]:
+                    col = f"column '{neutralise(header[i])}'"
+                at = f"row {n}"
+                vid = row[id_at].strip() if id_at is not None and id_at < len(row) else ""
+                if n > 1 and vid and len(vid) <= 60:
+                    at += f" (vessel '{neutralise(vid)}')"
+                raise InputError(
+                    f"{name}: {at}, {col}: the cell holds {len(cell):,} characters, more "
+                    f"than the {TEXT_CHARS_MAX} a register cell may hold; check the file"
+                )
+        row[:] = [neutralise(cell.strip()) for cell in row]
+    return rows
 
 
 def register_from_text(text: str, name: str, title: str | None = None) -> Scenario:
     """Validate a register given as CSV text."""
-    reader = csv.reader(io.StringIO(text))
-    try:
-        header = next(reader)
-    except StopIteration:
-        raise InputError(f"{name}: is empty; the first row must name the columns") from None
-    header = [h.strip() for h in header]
+    rows = _rows(text.lstrip("\ufeff"), name)
+    name = neutralise(name)
+    if not rows:
+        raise InputError(f"{name}: is empty; the first row must name the columns")
+    header, records = rows[0], rows[1:]
     for col in header:
         if col not in COLUMNS:
             raise InputError(
@@ -74,8 +108,8 @@ def register_from_text(text: str, name: str, title: str | None = None) -> Scenar
         if col not in header:
             raise InputError(f"{name}: the required column '{col}' is missing")
     vessels = []
-    for n, row in enumerate(reader, start=2):
-        if not any(cell.strip() for cell in row):
+    for n, row in enumerate(records, start=2):
+        if not any(row):
             raise InputError(f"{name}: row {n} is empty; remove it")
         if len(row) != len(header):
             raise InputError(
@@ -83,7 +117,6 @@ def register_from_text(text: str, name: str, title: str | None = None) -> Scenar
             )
         vessel: dict[str, object] = {}
         for col, cell in zip(header, row, strict=True):
-            cell = cell.strip()
             if not cell:
                 continue
             path = COLUMNS[col].split(".")

@@ -10,6 +10,7 @@ vessel and the field, says what is wrong and what would be right, e.g.::
 from __future__ import annotations
 
 import difflib
+import math
 import re
 import tomllib
 from dataclasses import dataclass
@@ -23,7 +24,10 @@ from fillcheck import units
 from fillcheck.errors import InputError
 from fillcheck.fluids.catalog import FluidData, lookup, user_fluid
 from fillcheck.models.registry import has_reference_equation
+from fillcheck.scenario import bounds
 from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
+from fillcheck.scenario.source import read_input
+from fillcheck.scenario.text import neutralise
 from fillcheck.thermo.fluid import Fluid
 from fillcheck.thermo.mixture_fluid import FRACTION_SUM_TOLERANCE, MixtureFluid
 
@@ -96,21 +100,24 @@ class Scenario:
 
 def load_scenario(path: str | Path) -> Scenario:
     """Read and validate a TOML scenario file."""
-    p = Path(path)
-    name = p.name
-    if not p.exists():
-        raise InputError(f"{path}: no such file; give the path of a scenario (.toml) file")
-    if p.is_dir():
-        raise InputError(f"{path}: is a folder; give the path of a scenario (.toml) file")
+    name = Path(path).name
+    text = read_input(path, "scenario (.toml)", "save the scenario as UTF-8 TOML")
+    if not text.strip():
+        raise InputError(f"{name}: is empty; a scenario needs at least one [[vessel]] table")
     try:
-        raw = tomllib.loads(p.read_text(encoding="utf-8-sig"))
-    except UnicodeDecodeError:
-        raise InputError(
-            f"{name}: is not a UTF-8 text file; save the scenario as UTF-8 TOML"
-        ) from None
+        raw = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise InputError(
             f"{name}: is not valid TOML ({exc}); check quotes and brackets near that line"
+        ) from None
+    except RecursionError:
+        raise InputError(
+            f"{name}: nests arrays or tables thousands of levels deep; a scenario needs "
+            f"{bounds.NESTING_MAX} levels at most"
+        ) from None
+    except ValueError as exc:  # e.g. an integer of more than 4300 digits
+        raise InputError(
+            f"{name}: is not valid TOML ({exc}); check the numbers in the file"
         ) from None
     return scenario_from_dict(raw, name)
 
@@ -123,12 +130,22 @@ def scenario_from_dict(
     With ``columns`` (field path -> register column), vessel i is row i + 2 of a register and
     messages name the row and the column.
     """
+    name = neutralise(name)
+    if isinstance(raw, dict):
+        raw = _clean(raw, raw, name, columns)
     try:
         spec = ScenarioSpec.model_validate(raw)
     except ValidationError as exc:
         raise InputError(_pydantic_sentence(exc, raw, name, columns)) from None
     where = _Where(name, columns=columns)
     T_ref = where.run("reference_temperature", units.parse_temperature, spec.reference_temperature)
+    if not bounds.REFERENCE_TEMPERATURE_MIN_K <= T_ref <= bounds.REFERENCE_TEMPERATURE_MAX_K:
+        raise where.fail(
+            "reference_temperature",
+            f"'{spec.reference_temperature}' is not an ambient temperature; a reference "
+            f"temperature lies between {bounds.REFERENCE_TEMPERATURE_MIN_K - 273.15:.0f} and "
+            f"+{bounds.REFERENCE_TEMPERATURE_MAX_K - 273.15:.0f} °C (15 degC is usual)",
+        )
     P_atm = where.run("atmospheric_pressure", units.parse_pressure, spec.atmospheric_pressure)
     if units.parse_pressure(spec.atmospheric_pressure, 1.0) != P_atm:
         raise where.fail(
@@ -189,6 +206,41 @@ class _Where:
         except InputError as exc:
             raise self.fail(field, str(exc)) from None
 
+    def pressure(self, field: str, text: str, P_atm: float = units.STANDARD_ATMOSPHERE_Pa) -> float:
+        """A pressure [Pa absolute], refused above the plausibility bound."""
+        P = self.run(field, units.parse_pressure, text, P_atm)
+        if P > bounds.PRESSURE_MAX_Pa:
+            raise self.fail(
+                field,
+                f"'{text}' is above {bounds.PRESSURE_MAX_Pa / 1e5:.0f} bar absolute "
+                f"({bounds.PRESSURE_MAX_Pa / 1e6:.0f} MPa), the plausibility bound of every "
+                "pressure fillcheck takes; check the number and the unit",
+            )
+        return P
+
+    def bounded(self, field: str, text: str, value: float, high: float, what: str) -> float:
+        """``value`` refused above the plausibility bound ``high`` (``what`` shows the bound)."""
+        if value > high:
+            raise self.fail(
+                field,
+                f"'{text}' is above {what}, the plausibility bound of this field; check the "
+                "number and the unit",
+            )
+        return value
+
+
+def option_temperature(scenario: Scenario, vessel: VesselInput, option: str, text: str) -> float:
+    """A gas temperature given on the command line for ``vessel`` [K], refused where a storage
+    temperature of the vessel would be (below the triple point, above ``T_HARD_MAX_K``)."""
+    where = _Where(scenario.source).vessel(vessel.id)
+    return _temperature(text, option, where, vessel.fluid)
+
+
+def option_pressure(scenario: Scenario, vessel: VesselInput, option: str, text: str) -> float:
+    """A pressure given on the command line for ``vessel`` [Pa absolute], within the bounds."""
+    where = _Where(scenario.source).vessel(vessel.id)
+    return where.pressure(option, text, scenario.atmospheric_pressure_Pa)
+
 
 def _user_gases(specs: list[GasSpec], where: _Where) -> dict[str, FluidData]:
     out: dict[str, FluidData] = {}
@@ -196,9 +248,23 @@ def _user_gases(specs: list[GasSpec], where: _Where) -> dict[str, FluidData]:
         f = f"gas[{i}]"
         M = _molar_mass(g.molar_mass, where, f + ".molar_mass")
         Tc = where.run(f + ".critical_temperature", units.parse_temperature, g.critical_temperature)
-        Pc = where.run(f + ".critical_pressure", units.parse_pressure, g.critical_pressure)
+        if not bounds.CRITICAL_TEMPERATURE_MIN_K <= Tc <= bounds.CRITICAL_TEMPERATURE_MAX_K:
+            raise where.fail(
+                f + ".critical_temperature",
+                f"'{g.critical_temperature}' is outside "
+                f"{bounds.CRITICAL_TEMPERATURE_MIN_K:.0f} to "
+                f"{bounds.CRITICAL_TEMPERATURE_MAX_K:.0f} K, the plausibility bounds of a "
+                "critical temperature; check the number and the unit",
+            )
+        Pc = where.pressure(f + ".critical_pressure", g.critical_pressure)
         rhoc = (
-            where.run(f + ".critical_density", units.parse_density, g.critical_density)
+            where.bounded(
+                f + ".critical_density",
+                g.critical_density,
+                where.run(f + ".critical_density", units.parse_density, g.critical_density),
+                bounds.DENSITY_MAX_kg_m3,
+                f"{bounds.DENSITY_MAX_kg_m3:.0f} kg/m³",
+            )
             if g.critical_density
             else None
         )
@@ -209,11 +275,15 @@ def _user_gases(specs: list[GasSpec], where: _Where) -> dict[str, FluidData]:
             if g.triple_point_temperature
             else None
         )
-        if not -0.5 < float(g.acentric_factor) < 1.5:
+        try:
+            omega = float(g.acentric_factor)
+        except OverflowError:
+            omega = math.inf
+        if not -0.5 < omega < 1.5:
             raise where.fail(
                 f + ".acentric_factor",
-                f"{g.acentric_factor} is not an acentric factor; gases lie between -0.5 and 1.5 "
-                "(e.g. 0.152 for propane)",
+                f"{_short(str(g.acentric_factor))} is not an acentric factor; gases lie between "
+                "-0.5 and 1.5 (e.g. 0.152 for propane)",
             )
         try:
             lookup(g.name)
@@ -231,7 +301,7 @@ def _user_gases(specs: list[GasSpec], where: _Where) -> dict[str, FluidData]:
                 M,
                 Tc,
                 Pc,
-                float(g.acentric_factor),
+                omega,
                 critical_density_kg_m3=rhoc,
                 triple_point_temperature_K=Tt,
                 hazards=g.hazards,
@@ -255,6 +325,12 @@ def _molar_mass(text: str, where: _Where, field: str) -> float:
     value = float(m.group(1)) * (1e-3 if m.group(2).lower() == "g/mol" else 1.0)
     if value <= 0:
         raise where.fail(field, f"'{text}' must be positive")
+    if not math.isfinite(value) or value < bounds.MOLAR_MASS_MIN_kg_mol:
+        raise where.fail(
+            field,
+            f"'{text}' is below {bounds.MOLAR_MASS_MIN_kg_mol * 1e3:.0f} g/mol or not a finite "
+            "number, outside the plausibility bounds of a molar mass (hydrogen has 2.016 g/mol)",
+        )
     return value
 
 
@@ -377,8 +453,21 @@ def _vessel(
     V = where.run("water_capacity", units.parse_volume, v.water_capacity)
     if V <= 0:
         raise where.fail("water_capacity", f"'{v.water_capacity}' must be larger than zero")
+    if not bounds.WATER_CAPACITY_MIN_m3 <= V <= bounds.WATER_CAPACITY_MAX_m3:
+        raise where.fail(
+            "water_capacity",
+            f"'{v.water_capacity}' is outside {bounds.WATER_CAPACITY_MIN_m3 * 1e6:.0f} mL to "
+            f"{bounds.WATER_CAPACITY_MAX_m3:.0f} m³, the plausibility bounds of a water "
+            "capacity; check the number and the unit",
+        )
     if v.count < 1:
         raise where.fail("count", f"{v.count} is not a number of vessels; give 1 or more")
+    if v.count > bounds.COUNT_MAX:
+        raise where.fail(
+            "count",
+            f"{_short(str(v.count))} is above {bounds.COUNT_MAX:,}, the plausibility bound of "
+            "a number of identical vessels; check the number",
+        )
     given = [k for k in FILL_KINDS if getattr(v.fill, k) is not None]
     if len(given) != 1:
         if where.columns is not None:
@@ -396,16 +485,23 @@ def _vessel(
     kind = given[0]
     text = getattr(v.fill, kind)
     entered["fill." + kind] = text
-    parse = {
-        "pressure": units.parse_pressure,
-        "settled_pressure": units.parse_pressure,
-        "mass": units.parse_mass,
-        "filling_ratio": units.parse_filling_ratio,
-    }[kind]
-    args = (P_atm,) if kind.endswith("pressure") else ()
-    value = where.run("fill." + kind, parse, text, *args)
+    if kind.endswith("pressure"):
+        value = where.pressure("fill." + kind, text, P_atm)
+    else:
+        parse = units.parse_mass if kind == "mass" else units.parse_filling_ratio
+        value = where.run("fill." + kind, parse, text)
     if value <= 0:
         raise where.fail("fill." + kind, f"'{text}' must be larger than zero")
+    if kind == "mass":
+        where.bounded("fill.mass", text, value, bounds.MASS_MAX_kg, f"{bounds.MASS_MAX_kg:,.0f} kg")
+    elif kind == "filling_ratio":
+        where.bounded(
+            "fill.filling_ratio",
+            text,
+            value,
+            bounds.DENSITY_MAX_kg_m3,
+            f"{bounds.DENSITY_MAX_kg_m3 / 1e3:.0f} kg/L",
+        )
     if kind in ("mass", "filling_ratio"):
         rho = value / V if kind == "mass" else value
         rho_max = PACKING_LIMIT * fluid.eos.max_density_mol() * fluid.molar_mass
@@ -521,7 +617,7 @@ def _rules(
         )
     entered["rules.set"] = v.rules.set
     entered["rules.test_pressure"] = v.rules.test_pressure
-    P = where.run("rules.test_pressure", units.parse_pressure, v.rules.test_pressure, P_atm)
+    P = where.pressure("rules.test_pressure", v.rules.test_pressure, P_atm)
     lo, hi, words = RULE_CLASSES[v.rules.set]
     Tc = fluid.model_critical[0]
     if (lo is not None and Tc < lo) or (hi is not None and Tc >= hi):
@@ -569,15 +665,11 @@ def _limits(
 ) -> Limits:
     lim = v.limits
     entered["limits.allowable_pressure"] = lim.allowable_pressure
-    allow = where.run(
-        "limits.allowable_pressure", units.parse_pressure, lim.allowable_pressure, P_atm
-    )
+    allow = where.pressure("limits.allowable_pressure", lim.allowable_pressure, P_atm)
     relief = None
     if lim.relief_set_pressure is not None:
         entered["limits.relief_set_pressure"] = lim.relief_set_pressure
-        relief = where.run(
-            "limits.relief_set_pressure", units.parse_pressure, lim.relief_set_pressure, P_atm
-        )
+        relief = where.pressure("limits.relief_set_pressure", lim.relief_set_pressure, P_atm)
     fr = None
     if lim.max_filling_ratio is not None:
         entered["limits.max_filling_ratio"] = lim.max_filling_ratio
@@ -586,6 +678,13 @@ def _limits(
             raise where.fail(
                 "limits.max_filling_ratio", f"'{lim.max_filling_ratio}' must be larger than zero"
             )
+        where.bounded(
+            "limits.max_filling_ratio",
+            lim.max_filling_ratio,
+            fr,
+            bounds.DENSITY_MAX_kg_m3,
+            f"{bounds.DENSITY_MAX_kg_m3 / 1e3:.0f} kg/L",
+        )
     vs = vs_T = None
     if (lim.min_vapour_space is None) != (lim.vapour_space_temperature is None):
         raise where.fail(
@@ -613,16 +712,7 @@ def _pydantic_sentence(
     errors = exc.errors()
     # an unknown key explains a "missing" one next to it (a typo), so it is reported first
     err = next((e for e in errors if e["type"] == "extra_forbidden"), errors[0])
-    loc = list(err["loc"])
-    vessel = ""
-    if len(loc) >= 2 and loc[0] == "vessel" and isinstance(loc[1], int):
-        idx = loc[1]
-        items = raw.get("vessel") or []
-        vid = items[idx].get("id") if idx < len(items) and isinstance(items[idx], dict) else None
-        vessel = f"vessel '{vid}', " if vid is not None else f"vessel number {idx + 1}, "
-        if columns is not None:
-            vessel = f"row {idx + 2} (vessel '{vid}'), "
-        loc = loc[2:]
+    vessel, loc = _vessel_of(list(err["loc"]), raw, columns)
     loc = [
         p
         for p in loc
@@ -634,8 +724,7 @@ def _pydantic_sentence(
             )
         )
     ]
-    field = ".".join(f"[{p}]" if isinstance(p, int) else str(p) for p in loc).replace(".[", "[")
-    field = field or "(top level)"
+    field = _field_text(loc)
     kind = err["type"]
     leaf = str(loc[-1]) if loc else ""
     if kind == "missing":
@@ -681,6 +770,74 @@ def _pydantic_sentence(
     return f"{file}: {vessel}field '{field}': {what}"
 
 
+def _vessel_of(loc: list[Any], raw: Any, columns: dict[str, str] | None) -> tuple[str, list[Any]]:
+    """The vessel (or register row) a location lies in, as message text, and the rest of it."""
+    if not (len(loc) >= 2 and loc[0] == "vessel" and isinstance(loc[1], int)):
+        return "", loc
+    idx = loc[1]
+    items = raw.get("vessel") if isinstance(raw, dict) else None
+    items = items if isinstance(items, list) else []
+    vid = items[idx].get("id") if idx < len(items) and isinstance(items[idx], dict) else None
+    if isinstance(vid, str | int) and not isinstance(vid, bool):
+        vid = _short(neutralise(str(vid)))
+    else:
+        vid = None
+    vessel = f"vessel '{vid}', " if vid is not None else f"vessel number {idx + 1}, "
+    if columns is not None:
+        vessel = f"row {idx + 2} (vessel '{vid}'), "
+    return vessel, loc[2:]
+
+
+def _field_text(loc: list[Any]) -> str:
+    field = ".".join(
+        f"[{p}]" if isinstance(p, int) else _short(neutralise(str(p))) for p in loc
+    ).replace(".[", "[")
+    return field or "(top level)"
+
+
+def _clean(
+    value: Any, raw: dict[str, Any], file: str, columns: dict[str, str] | None, loc: tuple = ()
+) -> Any:
+    """``value`` with every text neutralised (keys too), or an InputError where the input nests
+    too deep, holds a text too long or a number that is not finite."""
+
+    def fail(what: str) -> InputError:
+        vessel, rest = _vessel_of(list(loc), raw, columns)
+        field = _field_text(rest)
+        if columns is not None:
+            return InputError(f"{file}: {vessel}column '{columns.get(field, field)}': {what}")
+        return InputError(f"{file}: {vessel}field '{field}': {what}")
+
+    if len(loc) > bounds.NESTING_MAX:
+        raise fail(
+            f"nests arrays or tables more than {bounds.NESTING_MAX} levels deep; a scenario "
+            "needs four levels at most"
+        )
+    if isinstance(value, str):
+        if len(value) > bounds.TEXT_CHARS_MAX:
+            raise fail(
+                f"holds {len(value):,} characters, more than the {bounds.TEXT_CHARS_MAX} any "
+                "text of a scenario may hold; check the file"
+            )
+        return neutralise(value)
+    if isinstance(value, float) and not math.isfinite(value):
+        raise fail(f"has {value!r}, which is not a finite number; give a number")
+    if isinstance(value, dict):
+        out: dict[Any, Any] = {}
+        for k, v in value.items():
+            key = _clean(k, raw, file, columns, (*loc, k)) if isinstance(k, str) else k
+            out[key] = _clean(v, raw, file, columns, (*loc, key))
+        return out
+    if isinstance(value, list):
+        return [_clean(v, raw, file, columns, (*loc, i)) for i, v in enumerate(value)]
+    return value
+
+
+def _short(text: str, n: int = 60) -> str:
+    """``text`` cut to ``n`` characters (with an ellipsis) for a message."""
+    return text if len(text) <= n else text[: n - 1] + "…"
+
+
 def _known_keys(loc: list[Any]) -> list[str]:
     """The keys allowed where an unknown key ``loc`` was found."""
     from fillcheck.scenario import schema
@@ -703,7 +860,13 @@ def _known_keys(loc: list[Any]) -> list[str]:
 
 def _shown(value: Any) -> str:
     if isinstance(value, str):
-        return f"'{value}'"
+        return f"'{_short(value)}'"
     if isinstance(value, bool):
         return f"{str(value).lower()}"
-    return f"the bare value {value!r}" if value is not None else "no value"
+    if value is None:
+        return "no value"
+    try:
+        text = repr(value)
+    except (RecursionError, ValueError):  # too deep, or an integer of too many digits
+        text = type(value).__name__
+    return f"the bare value {_short(neutralise(text))}"
