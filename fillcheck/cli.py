@@ -12,11 +12,12 @@ from collections.abc import Callable, Iterator
 from contextlib import contextmanager
 from enum import StrEnum
 from pathlib import Path
-from typing import Annotated
+from typing import Annotated, Any
 
 import typer
 
 from fillcheck.errors import FillcheckError, InputError
+from fillcheck.scenario.text import neutralise
 
 EXIT_PASS, EXIT_FINDINGS, EXIT_REFUSED = 0, 1, 2
 PROGRESS_FROM = 500
@@ -96,6 +97,12 @@ def check(
     """
     from fillcheck.assess import assess_scenario
 
+    if html_out is not None:
+        from fillcheck.report.html_report import destination_problem
+
+        problem = destination_problem(html_out, force, source=file)
+        if problem is not None:
+            _refuse(problem)
     with _guarded("the check", file):
         register = file.suffix.lower() == ".csv"
         if register:
@@ -117,7 +124,7 @@ def check(
             _refuse(str(exc))
         except OSError as exc:
             _refuse(f"{html_out}: cannot be written ({exc.strerror}); choose another path")
-        typer.echo(f"fillcheck: wrote {html_out}", err=True)
+        typer.echo(f"fillcheck: wrote {neutralise(str(html_out))}", err=True)
     if json_out:
         from fillcheck.report.json_report import render_json
 
@@ -147,17 +154,17 @@ def _guarded(what: str, file: Path) -> Iterator[None]:
         yield
     except InputError as exc:
         msg = str(exc)
-        _refuse(msg if msg.startswith((file.name, str(file))) else f"{file.name}: {msg}")
+        names = (file.name, str(file), neutralise(file.name), neutralise(str(file)))
+        _refuse(msg if msg.startswith(names) else f"{file.name}: {msg}")
     except FillcheckError as exc:
-        typer.echo(f"fillcheck: could not complete {what}: {exc}", err=True)
+        _say(f"could not complete {what}: {exc}")
         raise typer.Exit(EXIT_FINDINGS) from None
     except typer.Exit:
         raise
     except Exception as exc:  # a defect in fillcheck
-        typer.echo(
-            f"fillcheck: internal error ({type(exc).__name__}: {exc}); no result was "
-            "reached. Please report this with the scenario file.",
-            err=True,
+        _say(
+            f"internal error ({type(exc).__name__}: {exc}); no result was "
+            "reached. Please report this with the scenario file."
         )
         raise typer.Exit(EXIT_FINDINGS) from None
 
@@ -180,10 +187,11 @@ def _pick(scenario: object, vessel: str | None) -> list:
     vessels = list(scenario.vessels)  # type: ignore[attr-defined]
     if vessel is None:
         return vessels
-    chosen = [v for v in vessels if v.id == vessel]
+    chosen = [v for v in vessels if v.id == neutralise(vessel)]
     if not chosen:
-        ids = ", ".join(v.id for v in vessels)
-        raise InputError(f"{scenario.source}: no vessel '{vessel}'; the file has {ids}")  # type: ignore[attr-defined]
+        ids = ", ".join(v.id for v in vessels[:10])
+        has = f"{len(vessels)} vessels, the first {ids}" if len(vessels) > 10 else ids
+        raise InputError(f"{scenario.source}: no vessel '{vessel}'; the file has {has}")  # type: ignore[attr-defined]
     return chosen
 
 
@@ -212,19 +220,21 @@ def stop_table_command(
     from fillcheck import units as u
     from fillcheck.assess.planning import stop_table
     from fillcheck.report.planning_report import planning_json, render_stop_tables
-    from fillcheck.scenario.resolve import load_scenario
+    from fillcheck.scenario.resolve import load_scenario, option_temperature
 
     with _guarded("the table", file):
         sc = load_scenario(file)
-        lo = _option(u.parse_temperature, start, "--from")
-        hi = _option(u.parse_temperature, stop, "--to")
+        picked = _pick(sc, vessel)
+        for v in picked:  # within every vessel's storage-temperature bounds
+            lo = option_temperature(sc, v, "--from", start)
+            hi = option_temperature(sc, v, "--to", stop)
         dT = _option(u.parse_temperature_difference, step, "--step")
         if not (hi > lo and dT > 0):
             raise InputError(f"--from '{start}' must be below --to '{stop}' and --step positive")
         if (hi - lo) / dT > 400:
             raise InputError(f"--step '{step}' gives more than 400 rows; choose a larger step")
         temps = np.arange(lo, hi + 1e-9, dT)
-        tables = [stop_table(v, sc.reference_temperature_K, temps) for v in _pick(sc, vessel)]
+        tables = [stop_table(v, sc.reference_temperature_K, temps) for v in picked]
     if json_out:
         typer.echo(planning_json(tables))
     else:
@@ -257,18 +267,15 @@ def reading_command(
       fillcheck reading scenarios/welding_supply_refill.toml --vessel AR-50-014 \\
           --pressure "215 barg" --temperature "35 degC"
     """
-    from fillcheck import units as u
     from fillcheck.assess.planning import read_gauge
     from fillcheck.report.planning_report import planning_json, render_reading
-    from fillcheck.scenario.resolve import load_scenario
+    from fillcheck.scenario.resolve import load_scenario, option_pressure, option_temperature
 
     with _guarded("the reading", file):
         sc = load_scenario(file)
         v = _pick(sc, vessel)[0]
-        P = _option(
-            lambda x: u.parse_pressure(x, sc.atmospheric_pressure_Pa), pressure, "--pressure"
-        )
-        T = _option(u.parse_temperature, temperature, "--temperature")
+        P = option_pressure(sc, v, "--pressure", pressure)
+        T = option_temperature(sc, v, "--temperature", temperature)
         r = read_gauge(v, sc.reference_temperature_K, P, T)
     if json_out:
         typer.echo(planning_json(r))
@@ -296,17 +303,55 @@ def gases() -> None:
         typer.echo(f"{d.name:24s} {d.formula:10s} {d.cas:12s} {default_model_id(d)}")
 
 
+def _say(message: str) -> None:
+    """One line on stderr: the message with any control character made visible."""
+    typer.echo(f"fillcheck: {neutralise(message)}", err=True)
+
+
 def _refuse(message: str) -> None:
-    typer.echo(f"fillcheck: {message}", err=True)
+    _say(message)
     raise typer.Exit(EXIT_REFUSED)
 
 
-def main() -> None:
-    """Entry point: usage errors (unknown option, missing argument) also exit with status 2."""
+def _cli_errors() -> tuple[Any, Any, tuple[Any, ...], Any]:
+    """The command-line library's errors: any, a usage error, "no arguments: show the help"
+    and an abort (end of input)."""
     try:
-        app(standalone_mode=True)
+        from typer._click import exceptions as ce  # typer vendors click from 0.2x on
+    except ImportError:  # pragma: no cover - older typer on click
+        from click import exceptions as ce  # type: ignore[no-redef]
+    help_error = getattr(ce, "NoArgsIsHelpError", None)
+    helps = (help_error,) if help_error is not None else ()
+    return ce.ClickException, ce.UsageError, helps, getattr(ce, "Abort", typer.Abort)
+
+
+def main() -> None:
+    """Entry point: a usage error (unknown option, missing argument) is one sentence on stderr
+    and exit status 2."""
+    any_error, usage_error, help_errors, abort = _cli_errors()
+    try:
+        code = app(standalone_mode=False)
+    except help_errors as exc:
+        exc.show()
+        sys.exit(EXIT_REFUSED)
+    except usage_error as exc:
+        ctx = getattr(exc, "ctx", None)
+        command = ctx.command_path if ctx is not None else "fillcheck"
+        _say(f"{_one_line(exc.format_message())}; see {command} --help")
+        sys.exit(EXIT_REFUSED)
+    except any_error as exc:
+        _say(_one_line(exc.format_message()))
+        sys.exit(exc.exit_code)
+    except (abort, typer.Abort):
+        _say("aborted")
+        sys.exit(EXIT_FINDINGS)
     except SystemExit as exc:
         sys.exit(exc.code)
+    sys.exit(code if isinstance(code, int) else 0)
+
+
+def _one_line(text: str) -> str:
+    return " ".join(str(text).split()).rstrip(".")
 
 
 if __name__ == "__main__":
