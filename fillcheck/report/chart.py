@@ -8,6 +8,10 @@ storage range as a band, the fill point, and where liquid forms or fills the ves
 from __future__ import annotations
 
 import io
+import logging
+import warnings
+from collections.abc import Iterator
+from contextlib import contextmanager
 
 import numpy as np
 
@@ -41,6 +45,17 @@ def vessel_chart_svg(
     relief_Pa: float | None,
 ) -> str:
     """The chart as an SVG string (no XML declaration), sized for a printed page."""
+    with _quiet():
+        return _vessel_chart(v, system, atm, allowable_Pa, relief_Pa)
+
+
+def _vessel_chart(
+    v: VesselAssessment,
+    system: units.UnitSystem,
+    atm: float,
+    allowable_Pa: float | None,
+    relief_Pa: float | None,
+) -> str:
     import matplotlib
 
     matplotlib.use("Agg")
@@ -90,7 +105,8 @@ def vessel_chart_svg(
             ax.axvline(tx(x), color="#7a4b00", lw=1.0, ls="-.", label=name)
     ax.set_xlabel(tlabel)
     ax.set_ylabel(plabel)
-    ax.set_title(f"{v.id}: {v.gas} ({v.model})", fontsize=10)
+    # user text is shown as written: never read as mathtext ("$...$")
+    ax.set_title(f"{v.id}: {v.gas} ({v.model})", fontsize=10, parse_math=False)
     ax.grid(True, lw=0.4, alpha=0.6)
     ax.legend(fontsize=7, loc="upper left", framealpha=0.9)
     return _svg(fig)
@@ -98,6 +114,28 @@ def vessel_chart_svg(
 
 def margin_chart_svg(vessels: list[VesselAssessment]) -> str:
     """A register's margins to the allowable pressure as a histogram, coloured by verdict."""
+    with _quiet():
+        return _margin_chart(vessels)
+
+
+@contextmanager
+def _quiet() -> Iterator[None]:
+    """Drawing says nothing on stderr: matplotlib warns through ``warnings`` (a glyph missing
+    from the font, e.g. for a Chinese or Arabic id) and through its loggers."""
+    loggers = [logging.getLogger(n) for n in ("matplotlib", "matplotlib.font_manager")]
+    levels = [lg.level for lg in loggers]
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        for lg in loggers:
+            lg.setLevel(logging.CRITICAL)
+        try:
+            yield
+        finally:
+            for lg, level in zip(loggers, levels, strict=True):
+                lg.setLevel(level)
+
+
+def _margin_chart(vessels: list[VesselAssessment]) -> str:
     import matplotlib
 
     matplotlib.use("Agg")
