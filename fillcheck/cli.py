@@ -330,7 +330,7 @@ def main() -> None:
     and exit status 2."""
     any_error, usage_error, help_errors, abort = _cli_errors()
     try:
-        code = app(standalone_mode=False)
+        code = app(standalone_mode=False, prog_name="fillcheck")
     except help_errors as exc:
         exc.show()
         sys.exit(EXIT_REFUSED)
