@@ -5,8 +5,8 @@ cylinder, vessel or storage site holds, so a value beyond one is a typing error 
 exponent slipped), not a vessel. They are not safety limits and say nothing about what a vessel
 may hold; they only keep absurd numbers away from the models, which would otherwise fail with a
 message that blames the equation instead of the input. The storage temperatures are bounded in
-:func:`fillcheck.scenario.resolve._temperature` (the gas's triple point and ``T_HARD_MAX_K``),
-not here.
+:func:`fillcheck.scenario.resolve._temperature` (from the gas's triple point up to the highest
+temperature its model is used at), not here.
 
 The input limits (file size, nesting, text length) keep a hostile or mistaken file from making
 fillcheck read forever or recurse without end.
