@@ -39,8 +39,8 @@ TRIVIAL_TOL = 1e-8
 TM_UNSTABLE = -1e-9
 """A tangent-plane distance below this marks the state unstable [-]."""
 STARTER_RATIO = 0.5
-"""A root of a model without closed-form roots is taken only within this ratio (either way) of
-the cubic starter's root of the same branch [-]."""
+"""A liquid root of a model without closed-form roots is taken only within this ratio (either
+way) of the cubic starter's liquid root; a vapour root beyond it only on the vapour branch [-]."""
 LNK_MAX = 50.0
 """Bound on |ln K| in the iterations (a component absent from a phase to e⁻⁵⁰) [-]."""
 
@@ -166,11 +166,21 @@ def density_roots(
     rv = _newton_density(model, T, P, x, v0, liquid=False)
     rl = _newton_density(model, T, P, x, l0, liquid=True)
     # far beyond its range a multiparameter equation can have extra loops whose rising parts
-    # a Newton step may land on; a real root lies within tens of per cent of the starter's
-    # (cubic) root of the same branch, a spurious one does not
+    # a Newton step may land on; a real liquid root lies within tens of per cent of the
+    # starter's (cubic) root of the same branch, a spurious one does not
     with np.errstate(invalid="ignore"):
         rl = np.where(np.abs(np.log(rl / l_pr)) > -np.log(STARTER_RATIO), np.nan, rl)
-        rv = np.where(np.abs(np.log(rv / v_pr)) > -np.log(STARTER_RATIO), np.nan, rv)
+        far_v = np.isfinite(rv) & (np.abs(np.log(rv / v_pr)) > -np.log(STARTER_RATIO))
+    # a vapour root is the root on the isotherm's vapour branch, rising from zero density,
+    # which the ratio cannot tell near a critical point: there the cubic's density is off by
+    # a factor of two for a small shift of its critical point, or the cubic has only a
+    # liquid-like root where the equation has a vapour. A vapour root far from the starter's
+    # is kept if the isotherm rises all the way to it.
+    if np.any(far_v):
+        i = np.flatnonzero(far_v)
+        Tb = np.broadcast_to(np.asarray(T, dtype=float), rv.shape)[i]
+        xb = np.asarray(x, dtype=float).reshape(rv.size, -1)[i]
+        rv[i] = np.where(_on_vapour_branch(model, Tb, xb, rv[i]), rv[i], np.nan)
     if not fill:  # the two branches as found (NaN: no root on that branch)
         return rv, rl
     rv = np.where(np.isnan(rv), rl, rv)
@@ -182,6 +192,22 @@ def density_roots(
             f"P = {np.ravel(P)[i]:.6g} Pa"
         )
     return rv, rl
+
+
+_VAPOUR_BRANCH_GRID = np.linspace(0.02, 0.995, 40)
+"""Fractions of a vapour root's density at which the isotherm is checked to rise."""
+
+
+def _on_vapour_branch(model: MixtureModel, T, x, rho) -> np.ndarray:
+    """Whether ρ [mol/m³] lies on the vapour branch of its isotherm: (∂P/∂ρ)_T > 0 at densities
+    from 2 % to 99.5 % of ρ, so the pressure rises from zero to ρ with no spinodal between (a
+    root reached past a spinodal lies on an inner loop of the two-phase region)."""
+    g = _VAPOUR_BRANCH_GRID
+    k = g.size
+    r = (rho[:, None] * g[None, :]).ravel()
+    with np.errstate(invalid="ignore", over="ignore"):
+        d = model.alphar(np.repeat(T, k), r, np.repeat(x, k, axis=0))
+        return np.all((1.0 + 2.0 * d.a01 + d.a02).reshape(-1, k) > 0.0, axis=1)
 
 
 def stable_density(
