@@ -281,7 +281,7 @@ def reading_command(
         typer.echo(planning_json(r))
     else:
         render_reading(r, _console(None), units.value, sc.atmospheric_pressure_Pa)
-    over = r.fraction_of_max_safe is None or r.fraction_of_max_safe > 1.0
+    over = r.fraction_of_max_safe is None or r.fraction_of_max_safe > 1.0 or r.may_exceed_plan
     raise typer.Exit(EXIT_FINDINGS if over else EXIT_PASS)
 
 

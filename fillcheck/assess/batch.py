@@ -17,22 +17,25 @@ import numpy as np
 from fillcheck import units
 from fillcheck.assess.cautions import cautions_for
 from fillcheck.assess.charge import largest_safe_densities
+from fillcheck.assess.checked_range import checked_ranges
 from fillcheck.assess.findings import vessel_findings
 from fillcheck.assess.mixture_findings import dropout_at_coldest, mixture_findings
 from fillcheck.assess.result import EndState, VesselAssessment
 from fillcheck.assess.uncertainty import pressure_uncertainty
-from fillcheck.scenario.resolve import T_HARD_MAX_K, VesselInput
+from fillcheck.scenario.resolve import VesselInput
 from fillcheck.thermo.fluid import Fluid
-from fillcheck.thermo.vessel import VesselPath, saturation_crossing, vessel_path
+from fillcheck.thermo.limits import FIRE_TEMPERATURE_K, highest_temperature_K
+from fillcheck.thermo.vessel import VesselPath, saturation_crossings, vessel_path
 
-FINE_STEP_K = 0.5
-"""Grid step of a small batch (a scenario file) [K]: fine enough to draw and interpolate."""
-MIXTURE_STEP_K = 2.0
-"""Grid step for a mixture, each of whose states needs a stability test [K]."""
+FINE_POINTS = 161
+"""Grid points per vessel of a small batch (a scenario file): enough to draw its chart."""
+MIXTURE_POINTS = 41
+"""Grid points per mixture vessel, each of whose states needs a stability test."""
 COARSE_POINTS = 25
-"""Points per vessel in a large batch (a register)."""
+"""Grid points per vessel in a large batch (a register, which draws no chart)."""
 SMALL_BATCH = 50
-"""Up to this many vessels of one gas, crossings are solved exactly and the grid is fine."""
+"""Up to this many vessels of one gas, the grid is fine enough for charts. Every finding and
+every number a report or JSON shows is solved exactly, whatever the batch size."""
 
 
 def fill_densities(vs: Sequence[VesselInput], T_ref: float) -> np.ndarray:
@@ -51,22 +54,25 @@ def fill_densities(vs: Sequence[VesselInput], T_ref: float) -> np.ndarray:
     return rho
 
 
-def _grids(vs: Sequence[VesselInput], T_ref: float, small: bool, step: float) -> np.ndarray:
-    lo = np.array(
-        [
-            v.min_temperature_K
-            if v.min_temperature_K is not None
-            else min(T_ref, v.fill_temperature_K or T_ref, v.max_temperature_K)
-            for v in vs
-        ]
-    )
-    hi = np.array([v.max_temperature_K for v in vs])
-    k = int(np.clip(np.ceil((hi - lo).max() / step) + 1, 2, 1000)) if small else COARSE_POINTS
+def _grids(vs: Sequence[VesselInput], T_ref: float, small: bool, mixture: bool) -> np.ndarray:
+    """Temperatures over each vessel's checked range, the same count of points for every vessel
+    of a batch size class (a scenario file, a register): the grid draws the charts; no finding
+    rests on it (limits, crossings and ranges are solved exactly)."""
+    lo, hi = checked_ranges(vs, T_ref)
+    k = (MIXTURE_POINTS if mixture else FINE_POINTS) if small else COARSE_POINTS
     return lo[:, None] + (hi - lo)[:, None] * np.linspace(0.0, 1.0, k)[None, :]
 
 
 def _first_crossing(T: np.ndarray, P: np.ndarray, limit: np.ndarray) -> np.ndarray:
     """Per row, the lowest T where P reaches ``limit`` (linear interpolation); NaN if never."""
+    return _bracket(T, P, limit)[0]
+
+
+def _bracket(
+    T: np.ndarray, P: np.ndarray, limit: np.ndarray
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Per row, the interpolated first T where P reaches ``limit`` and the grid bracket around
+    it (T below, T at or above); NaN where never reached."""
     hit = P >= limit[:, None]
     any_hit = hit.any(axis=1)
     i = np.where(any_hit, hit.argmax(axis=1), 0)
@@ -75,26 +81,54 @@ def _first_crossing(T: np.ndarray, P: np.ndarray, limit: np.ndarray) -> np.ndarr
     T0, T1, P0, P1 = T[rows, i0], T[rows, i], P[rows, i0], P[rows, i]
     with np.errstate(invalid="ignore", divide="ignore"):
         x = np.where(i == 0, T[:, 0], T0 + (limit - P0) * (T1 - T0) / (P1 - P0))
-    return np.where(any_hit, x, np.nan)
+    nan = np.nan
+    return np.where(any_hit, x, nan), np.where(any_hit, T0, nan), np.where(any_hit, T1, nan)
 
 
-def _saturation_table_crossings(f: Fluid, rho: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    """Dew and liquid-full temperatures by interpolation in a saturation table [K] (NaN: none).
+def exact_reach(
+    f: Fluid, rho: np.ndarray, T: np.ndarray, P: np.ndarray, limit: np.ndarray
+) -> np.ndarray:
+    """Per row, the lowest temperature [K] where the isochore's pressure reaches ``limit`` [Pa]
+    (NaN where it does not on the grid's span), solved on the isochore itself.
 
-    The table is uniform in √(Tc − T), where the saturated densities are close to linear.
-    """
-    Tc, _, rhoc = f.model_critical
-    table = getattr(f, "_crossing_table", None)
-    if table is None:
-        s = np.linspace(np.sqrt(Tc - f.T_min_saturation), np.sqrt(1e-3), 400)
-        table = (Tc - s * s, f.saturation_molar(Tc - s * s))
-        f._crossing_table = table  # type: ignore[attr-defined]  # per Fluid, computed once
-    T, sat = table
-    dew = np.interp(rho, sat.rho_vapor, T, left=np.nan, right=Tc)  # ρ'' rises with T
-    full = np.interp(-rho, -sat.rho_liquid, T, left=f.T_min_saturation, right=Tc)  # ρ' falls
-    dew = np.where(rho < rhoc, dew, np.nan)
-    full = np.where(rho >= rhoc, full, np.nan)
-    return dew, full
+    The grid only brackets the crossing; the root of P(T, ρ) = limit is then refined by the
+    Illinois variant of regula falsi, vectorised over the vessels, to a millikelvin for a
+    mixture and a microkelvin otherwise. Along an isochore P rises with T, so the bracket holds
+    one root; a vessel at or above the limit at the bottom of the grid reaches it there."""
+    x, a, b = _bracket(T, P, limit)
+    out = x.copy()
+    idx = np.flatnonzero(np.isfinite(x) & (b > a))
+    if idx.size == 0:
+        return out
+    mixture = getattr(f, "is_mixture", False)
+    tol = 1e-3 if mixture else 1e-6
+    a, b, r, L = a[idx], b[idx], rho[idx], limit[idx]
+    fa = vessel_path(f, a, r).P - L
+    fb = vessel_path(f, b, r).P - L
+    side = np.zeros(idx.size)
+    active = np.ones(idx.size, dtype=bool)
+    for _ in range(60):
+        j = np.flatnonzero(active)
+        if j.size == 0:
+            break
+        with np.errstate(invalid="ignore", divide="ignore"):
+            t = (a[j] * fb[j] - b[j] * fa[j]) / (fb[j] - fa[j])
+        t = np.where((t > a[j]) & (t < b[j]), t, 0.5 * (a[j] + b[j]))
+        ft = vessel_path(f, t, r[j]).P - L[j]
+        left = ft < 0.0  # the root lies above t
+        k = j[left]
+        a[k], fa[k] = t[left], ft[left]
+        fb[k] = np.where(side[k] == -1, 0.5 * fb[k], fb[k])
+        side[k] = -1
+        k = j[~left]
+        b[k], fb[k] = t[~left], ft[~left]
+        fa[k] = np.where(side[k] == 1, 0.5 * fa[k], fa[k])
+        side[k] = 1
+        active[j] = (b[j] - a[j]) > tol
+    out[idx] = np.where(fb == 0.0, b, 0.5 * (a + b))
+    # the first T at which P ≥ limit: never below the bracket's lower end
+    out[idx] = np.clip(out[idx], a, b)
+    return out
 
 
 def _liquid_fraction(f: Fluid, T: np.ndarray, rho: np.ndarray) -> np.ndarray:
@@ -141,6 +175,16 @@ def assess_many(
     return [a for a in out if a is not None]
 
 
+def _crossings(f: Fluid, rho: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Per vessel, (liquid-full?, crossing temperature [K] or NaN), solved exactly."""
+    if getattr(f, "is_mixture", False):
+        pairs = [f.saturation_crossing(float(r)) for r in rho]
+        full = np.array([k == "liquid-full" for k, _ in pairs], dtype=bool)
+        T = np.array([np.nan if t is None else t for _, t in pairs], dtype=float)
+        return full, T
+    return saturation_crossings(f, rho)
+
+
 def _assess_group(
     vs: Sequence[VesselInput], T_ref: float, system: units.UnitSystem, small: bool
 ) -> list[VesselAssessment]:
@@ -149,7 +193,8 @@ def _assess_group(
     R, M = f.eos.R, f.molar_mass
     rho = fill_densities(vs, T_ref)
     mixture = getattr(f, "is_mixture", False)
-    TT = _grids(vs, T_ref, small, MIXTURE_STEP_K if mixture else FINE_STEP_K)
+    TT = _grids(vs, T_ref, small, mixture)
+    T_hi = TT[:, -1]
     k = TT.shape[1]
     path = vessel_path(f, TT.ravel(), np.repeat(rho, k))
     PP = path.P.reshape(n, k)
@@ -165,39 +210,38 @@ def _assess_group(
     fill_P = np.where(is_p, [v.fill_value for v in vs], fill_P)
     allow = np.array([v.limits.allowable_pressure_Pa for v in vs])
     relief = np.array([v.limits.relief_set_pressure_Pa or np.nan for v in vs])
-    reach_allow = _first_crossing(TT, PP, allow)
-    reach_relief = _first_crossing(TT, PP, np.where(np.isnan(relief), np.inf, relief))
-    beyond_allow, beyond_relief = _reach_beyond(f, vs, TT, PP, rho, allow, relief, small)
-    if small or mixture:
-        crossings = [saturation_crossing(f, float(r)) for r in rho]
-    else:
-        dew, full = _saturation_table_crossings(f, rho)
-        crossings = [
-            ("dew", None if np.isnan(d) else float(d))
-            if np.isnan(fu)
-            else ("liquid-full", float(fu))
-            for d, fu in zip(dew, full, strict=True)
-        ]
+    relief_or_inf = np.where(np.isnan(relief), np.inf, relief)
+    reach = _reach(
+        f,
+        TT,
+        PP,
+        rho,
+        {"allowable": allow, "relief": relief_or_inf, "validity": np.full(n, f.validity.P_max_Pa)},
+    )
+    full, T_cross = _crossings(f, rho)
     vs_T = np.array([v.limits.vapour_space_temperature_K or np.nan for v in vs])
     has_vs = ~np.isnan(vs_T)
     frac = np.full(n, np.nan)
     if np.any(has_vs):
         frac[has_vs] = _liquid_fraction(f, vs_T[has_vs], rho[has_vs])
+    frac_top = _liquid_fraction(f, T_hi, rho)
     safe, governing = largest_safe_densities(f, vs, T_ref)
     safe_fill_P = np.full(n, np.nan)
     by_weight = np.zeros(n, dtype=bool)
-    ok = np.isfinite(safe) & has_fill_T
+    ok = np.isfinite(safe)
     if np.any(ok):
         st = vessel_path(f, T_fill[ok], safe[ok])
         liquid_at_fill = np.isin(st.phase, ("two-phase", "liquid"))
         # with liquid in the vessel the pressure does not measure the charge: no stop pressure
-        safe_fill_P[ok] = np.where(liquid_at_fill, np.nan, st.P)
+        # (nor where the stop pressure would lie outside the model's range)
+        inside = f.validity.contains(T_fill[ok], st.P)
+        safe_fill_P[ok] = np.where(liquid_at_fill | ~inside | ~has_fill_T[ok], np.nan, st.P)
         by_weight[ok] = liquid_at_fill
     Tc = f.model_critical[0]
     sat_curve = _saturation_curve(f, TT)
-    i_top = PP.argmax(axis=1)
     rows = np.arange(n)
-    u_top = pressure_uncertainty(f, TT[rows, i_top], rho, phase[rows, i_top])
+    u_top = pressure_uncertainty(f, T_hi, rho, phase[rows, -1])
+    T_upper = highest_temperature_K(f)
     results = []
     for j, v in enumerate(vs):
         p_j = VesselPath(
@@ -210,11 +254,11 @@ def _assess_group(
             np.full(k, np.nan),
             np.full(k, np.nan),
         )
-        kind, T_cross = crossings[j]
+        T_c = None if np.isnan(T_cross[j]) else float(T_cross[j])
         # a dense charge holds liquid up to the critical temperature (for a mixture, up to
         # Kay's pseudo-critical one, where its one-phase states stop being called liquid)
         T_top = f.pseudo_critical_K if mixture else Tc
-        liquid_below, full_above = (T_cross, None) if kind == "dew" else (T_top, T_cross)
+        liquid_below, full_above = (T_top, T_c) if full[j] else (T_c, None)
         if full_above is not None and Tc <= TT[j, 0]:
             full_above = None  # liquid-full only below Tc, and the whole range is above it
         fP = float(fill_P[j]) if has_fill_T[j] else None
@@ -243,11 +287,11 @@ def _assess_group(
             dP_dT_at_max_Pa_K=float(dPdT[j, -1]),
             liquid_forms_below_K=liquid_below,
             liquid_full_above_K=full_above,
-            allowable_reached_at_K=_num(reach_allow[j]),
-            relief_reached_at_K=_num(reach_relief[j]),
+            allowable_reached_at_K=_within(reach["allowable"][j], T_hi[j]),
+            relief_reached_at_K=_within(reach["relief"][j], T_hi[j]),
             max_safe_charge_kg=None
             if not np.isfinite(safe[j])
-            else float(safe[j] * M * v.water_capacity_m3),
+            else round(float(safe[j] * M * v.water_capacity_m3), 9),
             max_safe_fill_pressure_Pa=_num(safe_fill_P[j]),
             fill_by_weight=bool(by_weight[j]),
             pressure_uncertainty_at_top=float(u_top[j]),
@@ -258,7 +302,11 @@ def _assess_group(
             allowable_pressure_Pa=float(allow[j]),
             relief_set_pressure_Pa=v.limits.relief_set_pressure_Pa,
             liquid_fraction_at_vapour_space_T=_num(frac[j]),
-            limit_reached_K={"allowable": _num(beyond_allow[j]), "relief": _num(beyond_relief[j])},
+            liquid_fraction_at_top=_num(frac_top[j]),
+            limit_reached_K={
+                name: _num(reach[name][j]) for name in ("allowable", "relief", "validity")
+            },
+            highest_computed_K=T_upper,
         )
         a.saturation_T_K, a.saturation_P_Pa = sat_curve[j]
         # a mixture filled as a gas that only condenses in the cold is not a liquefied gas
@@ -268,36 +316,43 @@ def _assess_group(
             a.composition = dict(zip(f.component_names, map(float, f.z), strict=True))
             a.dropout = dropout_at_coldest(f, path, slice(j * k, (j + 1) * k))
             a.findings += mixture_findings(f, a.dropout, v.notes, system, a.liquefied)
-        liquid = bool(np.any(np.isin(phase[j], ("two-phase", "liquid"))))
+        liquid = any(x.code in ("liquid-present", "liquid-full-at-top") for x in a.findings)
         near = any(x.code == "near-critical" for x in a.findings)
         a.cautions = cautions_for(
             a.hazards,
             liquid=liquid if a.liquefied is None else a.liquefied,
             near_critical=near,
             cold_dropout=liquid and a.liquefied is False,
+            fire=float(T_hi[j]) > FIRE_TEMPERATURE_K,
         )
         results.append(a)
     return results
 
 
-def _reach_beyond(f: Fluid, vs, TT, PP, rho, allow, relief, small):
-    """Temperatures where the isochore reaches each limit, looking past the range to 500 K."""
-    k = (40 if getattr(f, "is_mixture", False) else 200) if small else 24
-    n = len(vs)
-    ext_T = TT[:, -1:] + (T_HARD_MAX_K - TT[:, -1:]) * np.linspace(0.0, 1.0, k)[None, :]
-    need = ~(
-        (PP >= allow[:, None]).any(1)
-        & ((PP >= np.nan_to_num(relief, nan=np.inf)[:, None]).any(1) | np.isnan(relief))
-    )
+def _reach(
+    f: Fluid, TT: np.ndarray, PP: np.ndarray, rho: np.ndarray, limits: dict[str, np.ndarray]
+) -> dict[str, np.ndarray]:
+    """Per limit [Pa], the exact temperature [K] where each vessel's isochore reaches it, looking
+    past the checked range up to the highest temperature fillcheck computes (NaN: never)."""
+    n = len(rho)
+    T_end = highest_temperature_K(f)
+    k = 24
+    ext_T = TT[:, -1:] + np.maximum(T_end - TT[:, -1:], 0.0) * np.linspace(0.0, 1.0, k)[None, :]
+    tops = PP[:, -1]
+    need = np.zeros(n, dtype=bool)
+    for L in limits.values():
+        need |= np.isfinite(L) & (tops < L)
     ext_P = np.full((n, k), -np.inf)
     if np.any(need):
         ext_P[need] = vessel_path(f, ext_T[need].ravel(), np.repeat(rho[need], k)).P.reshape(-1, k)
-    T_all = np.concatenate([TT, ext_T], axis=1)
-    P_all = np.concatenate([PP, ext_P], axis=1)
-    return (
-        _first_crossing(T_all, P_all, allow),
-        _first_crossing(T_all, P_all, np.where(np.isnan(relief), np.inf, relief)),
-    )
+    T_all = np.concatenate([TT, ext_T[:, 1:]], axis=1)
+    P_all = np.concatenate([PP, ext_P[:, 1:]], axis=1)
+    return {name: exact_reach(f, rho, T_all, P_all, L) for name, L in limits.items()}
+
+
+def _within(T: float, T_hi: float) -> float | None:
+    """A reach temperature inside the checked range, else None."""
+    return None if not np.isfinite(T) or T > T_hi + 1e-9 else float(T)
 
 
 def _num(x: float) -> float | None:

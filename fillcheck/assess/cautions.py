@@ -47,8 +47,20 @@ COLD_DROPOUT = (
 )
 
 
+FIRE = (
+    "Fire temperatures: fillcheck computes the pressure of the gas this hot, not the strength of "
+    "the vessel, which steels and composites lose long before such temperatures; a cylinder "
+    "exposed to fire is cooled from a safe distance and taken out of service until inspected."
+)
+
+
 def cautions_for(
-    hazards: tuple[str, ...], *, liquid: bool, near_critical: bool, cold_dropout: bool = False
+    hazards: tuple[str, ...],
+    *,
+    liquid: bool,
+    near_critical: bool,
+    cold_dropout: bool = False,
+    fire: bool = False,
 ) -> list[str]:
     """The cautions for a gas with these hazard classes in this vessel."""
     out = [
@@ -62,4 +74,6 @@ def cautions_for(
         out.append(COLD_DROPOUT)
     if near_critical:
         out.append(NEAR_CRITICAL)
+    if fire:
+        out.append(FIRE)
     return out

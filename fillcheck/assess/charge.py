@@ -1,29 +1,47 @@
-"""The largest safe charge: the greatest density that keeps every entered limit.
+"""The largest safe charge: the greatest density that keeps every limit over the checked range.
 
 Along a closed vessel's isochore the pressure rises with temperature, and at a fixed temperature
-it rises (or, in two phases, stays level) with density. So the pressure limits bind at the
-highest storage temperature, and the largest density that keeps P(T_max, ρ) at or below a limit
-is the stable-root density at (T_max, P_limit): vapour-like where the limit is under the vapour
-pressure at T_max, compressed liquid where it is above (the vessel may then be nearly
-liquid-full at T_max). The filling ratio limits the density directly, and the vapour space at
-its temperature T_v limits the liquid volume fraction (ρ − ρ_v)/(ρ_l − ρ_v) to 1 − fraction.
-A named rule set (assess.rules) adds its own largest densities. The smallest of these densities
-is the answer; the limit that gives it governs.
+it rises (or, in two phases, stays level) with density. So the pressure limits bind at the top
+of the checked range, T_top (the highest of the maximum storage and fill temperatures, see
+:mod:`fillcheck.assess.checked_range`). Each limit gives one density bound, on the branch that
+physically applies at T_top:
 
-Two rules are built in: every pressure limit is kept with the model's pressure uncertainty at
-that state plus a clearance of 0.1 % (assess.uncertainty), so that the plan, followed, passes;
-and the vessel must not be liquid-full at its highest storage temperature, where a few kelvin
-more would raise the pressure by tens of bar.
+- a pressure limit P_L (allowable, relief setting): the largest ρ with
+  P(T_top, ρ) ≤ P_L · (1 − u(ρ) − c), u the model's pressure uncertainty at that state
+  (assess.uncertainty) and c a clearance of 0.1 %, so that the plan followed to its printed,
+  rounded-down figures passes without a review. Below the critical temperature, where the vapour
+  pressure keeps that margin, the limit does not bind before the vessel is liquid-full (the
+  vapour-space rule below governs); where it does not, the bound lies on the vapour branch,
+  below the saturated vapour density. The uncertainty is applied to the margin on the branch
+  that applies, never used to move a target across the vapour pressure, so the bound cannot
+  jump between the liquid and the vapour as the limit moves. Above the critical temperature the
+  bound is the root of a monotone function of ρ, found by bisection.
+- the filling ratio bounds the density directly;
+- vapour space: at T_top below the critical temperature the liquid may fill at most 1 − f of
+  the vessel, ρ ≤ ρ_v + (1 − f)(ρ_l − ρ_v), with the saturated-liquid density reduced by its
+  uncertainty. f is 5 % unless the scenario sets its own `min_vapour_space` (common practice,
+  no source; the P200 rule for low-pressure liquefied gases, which keeps the vessel from being
+  liquid-full at 50 °C, is its published cousin: UN Model Regulations, packing instruction P200,
+  from memory). A scenario's own vapour-space limit applies at its own temperature, and the
+  built-in one then keeps the vessel from being liquid-full at T_top;
+- the model's validity range: the largest ρ whose pressure at T_top stays inside it;
+- a named rule set (assess.rules) adds its own largest densities.
+
+The plan is the least of the bounds, rounded down once to what the reports print
+(PLAN_RESOLUTION_KG), and the limit that gives it governs. Each bound is monotone in its limit,
+so the plan never shrinks when a limit is loosened.
 """
 
 from __future__ import annotations
 
+import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 from typing import TYPE_CHECKING
 
 import numpy as np
 
+from fillcheck.assess.checked_range import checked_ranges
 from fillcheck.assess.rules import rule_limits
 from fillcheck.assess.uncertainty import pressure_uncertainty
 from fillcheck.thermo.vessel import vessel_path
@@ -34,6 +52,23 @@ if TYPE_CHECKING:
 
 RELIEF_CLEARANCE = 1e-4
 """Relative clearance below the relief setting [-]: reaching the setting itself fails."""
+MAX_UNCERTAINTY = 0.5
+"""Largest model uncertainty the planned charge is reduced by [-]."""
+SAFETY_CLEARANCE = 1e-3
+"""Relative clearance kept below every pressure limit beyond the model's uncertainty [-], so that
+a plan followed to its printed (rounded) figures still passes."""
+DEFAULT_VAPOUR_SPACE = 0.05
+"""Vapour space kept at the top of the checked range where the scenario sets none [-]
+(common practice, no source)."""
+PLAN_RESOLUTION_KG = 0.01
+"""A planned charge is rounded down to this mass [kg], the figure every report prints."""
+DENSITY_TOLERANCE = 1e-12
+"""Relative width of the density bracket a bound is solved to [-]."""
+MIXTURE_TOLERANCE = 1e-6
+"""The same for a mixture, each of whose states needs a phase-stability test [-]."""
+
+BUILT_IN_VAPOUR_SPACE = "vapour space at the top of the checked range (built in)"
+"""The name of the built-in vapour-space limit, as reports show it."""
 
 
 @dataclass(frozen=True)
@@ -45,21 +80,20 @@ class SafeCharge:
 
 
 def largest_safe_densities(
-    fluid: Fluid, vs: Sequence[VesselInput], T_ref: float
+    fluid: Fluid, vs: Sequence[VesselInput], T_ref: float, round_down: bool = True
 ) -> tuple[np.ndarray, list[str | None]]:
     """The greatest overall densities [mol/m³] keeping every limit of each vessel (one gas).
 
-    Returns the densities (NaN where no charge keeps the limits) and the governing limits.
+    Returns the densities, rounded down to the planned mass unless ``round_down`` is False
+    (NaN where no charge keeps the limits), and the governing limits.
     """
     n = len(vs)
     lim = [v.limits for v in vs]
-    T_max = np.array([v.max_temperature_K for v in vs])
+    T_top = checked_ranges(vs, T_ref)[1]
     inf = np.full(n, np.inf)
+    allow = np.array([x.allowable_pressure_Pa for x in lim])
     cands: list[tuple[np.ndarray, str]] = [
-        (
-            _under(fluid, T_max, np.array([x.allowable_pressure_Pa for x in lim])),
-            "allowable pressure",
-        )
+        (pressure_bound(fluid, T_top, allow), "allowable pressure")
     ]
     relief = np.array(
         [np.nan if x.relief_set_pressure_Pa is None else x.relief_set_pressure_Pa for x in lim]
@@ -67,44 +101,32 @@ def largest_safe_densities(
     has = ~np.isnan(relief)
     if np.any(has):
         r = inf.copy()
-        r[has] = _under(fluid, T_max[has], relief[has] * (1.0 - RELIEF_CLEARANCE))
+        r[has] = pressure_bound(fluid, T_top[has], relief[has] * (1.0 - RELIEF_CLEARANCE))
         cands.append((r, "relief set pressure"))
-    below = T_max < fluid.model_critical[0]
-    if np.any(below):
-        r = inf.copy()
-        rl = fluid.saturation_molar(T_max[below]).rho_liquid  # NaN: a mixture with no band
-        r[below] = np.nan_to_num(rl, nan=np.inf) * (1.0 - _liquid_u(fluid))
-        cands.append((r, "liquid-full at the highest storage temperature (built in)"))
-    fr = (
-        np.array(
-            [
-                np.inf if x.max_filling_ratio_kg_m3 is None else x.max_filling_ratio_kg_m3
-                for x in lim
-            ]
-        )
-        / fluid.molar_mass
+    own = np.array([x.min_vapour_space is not None for x in lim])
+    floor = np.where(own, 0.0, DEFAULT_VAPOUR_SPACE)
+    cands.append((vapour_space_bound(fluid, T_top, floor), BUILT_IN_VAPOUR_SPACE))
+    fr = np.array(
+        [np.inf if x.max_filling_ratio_kg_m3 is None else x.max_filling_ratio_kg_m3 for x in lim]
     )
-    cands.append((fr, "maximum filling ratio"))
+    cands.append((fr / fluid.molar_mass, "maximum filling ratio"))
     Tv = np.array(
         [
             np.nan if x.vapour_space_temperature_K is None else x.vapour_space_temperature_K
             for x in lim
         ]
     )
-    has = ~np.isnan(Tv)
-    if np.any(has):
-        Tc, _, rhoc = fluid.model_critical
-        frac = np.array([x.min_vapour_space or 0.0 for x in lim])
+    if np.any(own):
         r = inf.copy()
-        below = has & (Tv < Tc)
-        if np.any(below):
-            sat = fluid.saturation_molar(Tv[below])
-            r[below] = sat.rho_vapor + (1.0 - frac[below]) * (sat.rho_liquid - sat.rho_vapor)
-        # above Tc there is no vapour space to keep: stay (strictly) below the critical density
-        # (also where a mixture has no two-phase band at T_v)
-        r[has & ~below] = rhoc * (1.0 - 1e-9)
-        r[has] = np.where(np.isnan(r[has]), rhoc * (1.0 - 1e-9), r[has])
+        frac = np.array([x.min_vapour_space or 0.0 for x in lim])
+        r[own] = vapour_space_bound(fluid, Tv[own], frac[own], uncertain=False)
         cands.append((r, "minimum vapour space"))
+    P_max = fluid.validity.P_max_Pa
+    over = np.maximum(allow, np.nan_to_num(relief, nan=0.0)) > P_max
+    if np.any(over):  # a limit above the model's range: the range bounds the plan instead
+        r = inf.copy()
+        r[over] = pressure_bound(fluid, T_top[over], np.full(int(over.sum()), P_max), 0.0)
+        cands.append((r, "the model's validity range"))
     for j, v in enumerate(vs):
         if v.rules is None:
             continue
@@ -117,28 +139,154 @@ def largest_safe_densities(
     stack = np.vstack([c for c, _ in cands])
     best = stack.argmin(axis=0)
     rho = stack[best, np.arange(n)]
+    V = np.array([v.water_capacity_m3 for v in vs])
+    if round_down:
+        rho = np.array([rounded_down(r, fluid.molar_mass * x) for r, x in zip(rho, V, strict=True)])
     names = [cands[b][1] for b in best]
     bad = ~np.isfinite(rho) | (rho <= 0)
     return np.where(bad, np.nan, rho), [None if b else nm for b, nm in zip(bad, names, strict=True)]
 
 
-MAX_UNCERTAINTY = 0.5
-"""Largest model uncertainty the planned charge is reduced by [-]."""
-SAFETY_CLEARANCE = 1e-3
-"""Relative clearance kept below every pressure limit beyond the model's uncertainty [-], so that
-a plan followed to its printed (rounded) figures still passes."""
+def rounded_down(rho_mol: float, kg_per_density: float) -> float:
+    """A density [mol/m³] whose charge is rounded down to PLAN_RESOLUTION_KG (NaN kept)."""
+    if not np.isfinite(rho_mol) or rho_mol <= 0:
+        return float(rho_mol)
+    m = rho_mol * kg_per_density
+    q = PLAN_RESOLUTION_KG if m >= PLAN_RESOLUTION_KG else PLAN_RESOLUTION_KG / 100.0
+    return math.floor(m / q + 1e-9) * q / kg_per_density
 
 
-def _under(fluid: Fluid, T: np.ndarray, P: np.ndarray) -> np.ndarray:
-    """The largest density whose pressure at T stays below P by the model's uncertainty."""
-    rho = fluid.density_molar(T, P)
-    for _ in range(2):
-        u = np.nan_to_num(pressure_uncertainty(fluid, T, rho, vessel_path(fluid, T, rho).phase))
-        # a cubic's error for a dense fluid can exceed 100 %: past MAX_UNCERTAINTY the plan is
-        # only an estimate, and the check says "review" for the margin in any case
-        u = np.clip(u, 0.0, MAX_UNCERTAINTY)
-        rho = fluid.density_molar(T, P * (1.0 - u - SAFETY_CLEARANCE))
-    return rho
+def _margin_excess(
+    fluid: Fluid, T: np.ndarray, rho: np.ndarray, P_limit: np.ndarray, clearance: float
+) -> np.ndarray:
+    """P(T, ρ) − P_L (1 − u − c) on the closed-vessel path [Pa]: ≤ 0 where the margin holds."""
+    st = vessel_path(fluid, T, rho)
+    u = np.nan_to_num(pressure_uncertainty(fluid, T, rho, st.phase))
+    # a cubic's error for a dense fluid can exceed 100 %: past MAX_UNCERTAINTY the plan is
+    # only an estimate, and the check says "review" for the margin in any case
+    u = np.clip(u, 0.0, MAX_UNCERTAINTY) if clearance > 0 else 0.0 * u
+    return st.P - P_limit * (1.0 - u - clearance)
+
+
+def pressure_bound(
+    fluid: Fluid, T: np.ndarray, P_limit: np.ndarray, clearance: float = SAFETY_CLEARANCE
+) -> np.ndarray:
+    """The largest overall density [mol/m³] whose pressure at T [K] keeps P_limit [Pa] with the
+    model's uncertainty and ``clearance`` (with clearance 0, uncertainty is not applied: a plain
+    pressure bound, as for the validity range). +inf where the limit cannot bind before the
+    vessel is liquid-full at T."""
+    T = np.asarray(T, dtype=float).ravel()
+    P_limit = np.asarray(P_limit, dtype=float).ravel()
+    n = T.size
+    out = np.full(n, np.nan)
+    if n == 0:
+        return out
+    mixture = getattr(fluid, "is_mixture", False)
+    hi = np.asarray(fluid.density_molar(T, P_limit), dtype=float).ravel()
+    lo = np.zeros(n)
+    todo = np.ones(n, dtype=bool)
+    Tc = fluid.model_critical[0]
+    below = (T < Tc) & (T >= fluid.T_min_saturation) & (not mixture)
+    if np.any(below):
+        # the branch that applies: the vapour pressure itself keeps the margin (then the limit
+        # binds only past liquid-full, which the vapour-space rule forbids), or it does not
+        # (then the bound lies on the vapour branch, below the saturated vapour density)
+        sat = fluid.saturation_molar(T[below])
+        mid = 0.5 * (sat.rho_vapor + sat.rho_liquid)
+        keeps = _margin_excess(fluid, T[below], mid, P_limit[below], clearance) <= 0.0
+        b = np.flatnonzero(below)
+        out[b[keeps]] = np.inf
+        todo[b[keeps]] = False
+        hi[b[~keeps]] = np.minimum(hi[b[~keeps]], sat.rho_vapor[~keeps])
+        at_dew = _margin_excess(
+            fluid, T[b[~keeps]], sat.rho_vapor[~keeps] * (1 - 1e-12), P_limit[b[~keeps]], clearance
+        )
+        dew_ok = at_dew <= 0.0
+        out[b[~keeps][dew_ok]] = sat.rho_vapor[~keeps][dew_ok] * (1 - 1e-12)
+        todo[b[~keeps][dew_ok]] = False
+    idx = np.flatnonzero(todo)
+    if idx.size:
+        # a start close below the root: the density at the limit less the uncertainty there
+        # (the uncertainty grows with density, so this start nearly always keeps the margin)
+        j = idx
+        st = vessel_path(fluid, T[j], hi[j])
+        u = np.clip(np.nan_to_num(pressure_uncertainty(fluid, T[j], hi[j], st.phase)), 0, 0.5)
+        u = u if clearance > 0 else 0.0 * u
+        guess = np.asarray(
+            fluid.density_molar(T[j], P_limit[j] * (1.0 - u - clearance)), dtype=float
+        ).ravel()
+        guess = np.minimum(guess, hi[j])
+        at_guess = _margin_excess(fluid, T[j], guess, P_limit[j], clearance)
+        keeps = at_guess <= 0.0
+        lo[j] = np.where(keeps, guess, lo[j])
+        f_lo = np.where(keeps, at_guess, -P_limit[j])  # at ρ → 0 the pressure vanishes
+        out[idx] = _last_keeping(
+            lambda j, r: _margin_excess(fluid, T[j], r, P_limit[j], clearance),
+            lo[idx],
+            hi[idx],
+            MIXTURE_TOLERANCE if mixture else DENSITY_TOLERANCE,
+            f_lo,
+        )
+    return out
+
+
+def _last_keeping(
+    excess, a: np.ndarray, c: np.ndarray, tol: float, fa: np.ndarray | None = None
+) -> np.ndarray:
+    """Per element, the largest density in [a, c] with excess ≤ 0, to a relative ``tol``.
+
+    ``excess(idx, rho)`` rises with ρ (it may jump up where a phase ends); a is known to keep the
+    margin and c not. Regula falsi with the Illinois modification, vectorised: it converges
+    superlinearly, never leaves the bracket, and returns the bracket's keeping end, so the
+    answer is on the safe side of the root."""
+    n = a.size
+    all_idx = np.arange(n)
+    fa = excess(all_idx, np.maximum(a, 1e-300)) if fa is None else fa
+    fc = excess(all_idx, c)
+    side = np.zeros(n)
+    active = fc > 0.0
+    for _ in range(200):
+        j = np.flatnonzero(active)
+        if j.size == 0:
+            break
+        with np.errstate(invalid="ignore", divide="ignore"):
+            m = (a[j] * fc[j] - c[j] * fa[j]) / (fc[j] - fa[j])
+        m = np.where((m > a[j]) & (m < c[j]), m, 0.5 * (a[j] + c[j]))
+        fm = excess(j, m)
+        keep = fm <= 0.0
+        k = j[keep]
+        a[k], fa[k] = m[keep], fm[keep]
+        fc[k] = np.where(side[k] == -1, 0.5 * fc[k], fc[k])
+        side[k] = -1
+        k = j[~keep]
+        c[k], fc[k] = m[~keep], fm[~keep]
+        fa[k] = np.where(side[k] == 1, 0.5 * fa[k], fa[k])
+        side[k] = 1
+        active[j] = (c[j] - a[j]) > tol * c[j]
+    a = np.where(fc <= 0.0, c, a)  # the whole bracket keeps the margin (to round-off)
+    return np.where(np.isfinite(a), a, np.nan)
+
+
+def vapour_space_bound(
+    fluid: Fluid, T: np.ndarray, fraction: np.ndarray, uncertain: bool = True
+) -> np.ndarray:
+    """The largest overall density [mol/m³] whose liquid fills at most 1 − fraction of the
+    vessel at T [K]: ρ_v + (1 − f)(ρ_l − ρ_v), the liquid density reduced by its uncertainty
+    where ``uncertain`` (the built-in rule at the top of the checked range). At or above the
+    critical temperature (and where a mixture has no two-phase band at T) there is no vapour
+    space to keep: the built-in rule does not bind there, and a scenario's own rule keeps the
+    density strictly below the critical density."""
+    T = np.asarray(T, dtype=float).ravel()
+    fraction = np.broadcast_to(np.asarray(fraction, dtype=float), T.shape)
+    Tc, _, rhoc = fluid.model_critical
+    out = np.full(T.shape, np.inf if uncertain else rhoc * (1.0 - 1e-9))
+    below = T < Tc
+    if np.any(below):
+        sat = fluid.saturation_molar(T[below])
+        rl = sat.rho_liquid * (1.0 - (_liquid_u(fluid) if uncertain else 0.0))
+        r = sat.rho_vapor + (1.0 - fraction[below]) * (rl - sat.rho_vapor)
+        out[below] = np.where(np.isnan(r), out[below], r)  # NaN: a mixture with no band at T
+    return out
 
 
 def _liquid_u(fluid: Fluid) -> float:
@@ -149,9 +297,11 @@ def _liquid_u(fluid: Fluid) -> float:
     return 0.0 if err is None else err.saturated_liquid_density
 
 
-def largest_safe_density(fluid: Fluid, v: VesselInput, T_ref: float) -> SafeCharge | None:
-    """The greatest overall density keeping every limit of ``v`` over its storage range."""
-    rho, names = largest_safe_densities(fluid, [v], T_ref)
+def largest_safe_density(
+    fluid: Fluid, v: VesselInput, T_ref: float, round_down: bool = True
+) -> SafeCharge | None:
+    """The greatest overall density keeping every limit of ``v`` over its checked range."""
+    rho, names = largest_safe_densities(fluid, [v], T_ref, round_down)
     if names[0] is None:
         return None
     return SafeCharge(float(rho[0]), names[0])

@@ -20,7 +20,6 @@ from fillcheck import units
 from fillcheck.assess.result import Finding, VesselAssessment
 from fillcheck.assess.rules import RULES_SOURCE, rule_limits
 from fillcheck.assess.uncertainty import pressure_uncertainty
-from fillcheck.scenario.resolve import T_HARD_MAX_K
 from fillcheck.thermo.vessel import VesselPath
 
 if TYPE_CHECKING:
@@ -114,18 +113,18 @@ def vessel_findings(
         elif liquid > allowed:
             out.append(Finding("vapour-space-too-small", "fail", said))
 
+    out += _top_liquid_findings(v, a, path, t, p, checked, system)
     if v.rules is not None:
         out += _rule_findings(v, a, p, checked)
 
     # --- review -------------------------------------------------------------------------------
-    inside = f.validity.contains(path.T, path.P)
-    if not np.all(inside):
-        bad = path.T[~inside]
+    span = _outside_validity(f, a, path)
+    if span is not None:
         out.append(
             Finding(
                 "outside-validity",
                 "review",
-                f"states from {t(bad.min())} to {t(bad.max())} lie outside the range where the "
+                f"states from {t(span[0])} to {t(span[1])} lie outside the range where the "
                 f"{f.model} model's error was measured ({a.model_validity.split(' (')[0]}); "
                 "its numbers there are not vouched for",
             )
@@ -181,48 +180,18 @@ def vessel_findings(
     # --- warning ------------------------------------------------------------------------------
     if v.model_note:
         out.append(Finding("model-substituted", "warning", v.model_note))
-    has_liquid = np.isin(path.phase, ("two-phase", "liquid"))
-    if np.any(has_liquid):
-        T_liq = path.T[has_liquid]
-        lo_liq, hi_liq = float(T_liq.min()), float(T_liq.max())
-        edge = a.liquid_forms_below_K
-        if edge is not None and hi_liq < path.T[-1] and edge > hi_liq:
-            hi_liq = min(edge, float(path.T[-1]))  # the exact crossing, not the grid point
-        said = (
-            "the mixture was filled as a gas, and while liquid is present the gas drawn off "
-            "is not the composition on the label"
-            if a.liquefied is False
-            else "the gas drawn off changes as liquid evaporates, and a liquefied gas must be "
-            "filled by weight"
-        )
-        out.append(
-            Finding(
-                "liquid-present",
-                "warning",
-                f"liquid is present from {t(lo_liq)} to {t(hi_liq)}: {said}",
-            )
-        )
-    if np.any(path.phase == "liquid"):
-        out.append(
-            Finding(
-                "liquid-full",
-                "warning",
-                f"liquid fills the whole vessel above {t(a.liquid_full_above_K)}; from there the "
-                f"pressure rises by {units.pressure_rate_per_K(a.dP_dT_at_max_Pa_K, system)} "
-                f"(at {t(path.T[-1])})",
-            )
-        )
+    out += _liquid_warnings(f, a, path, t, system)
     Tc, _, rhoc = f.model_critical
-    near = (np.abs(path.T / Tc - 1) < NEAR_CRITICAL_T) & (
-        np.abs(path.rho_mol / rhoc - 1) < NEAR_CRITICAL_RHO
-    )
-    near &= not getattr(f, "is_mixture", False)  # a mixture's critical point is not computed
-    if np.any(near):
+    near_lo = max(float(path.T[0]), (1.0 - NEAR_CRITICAL_T) * Tc)
+    near_hi = min(float(path.T[-1]), (1.0 + NEAR_CRITICAL_T) * Tc)
+    dense_near = abs(float(path.rho_mol[0]) / rhoc - 1.0) < NEAR_CRITICAL_RHO
+    # a mixture's critical point is not computed
+    if near_lo <= near_hi and dense_near and not getattr(f, "is_mixture", False):
         out.append(
             Finding(
                 "near-critical",
                 "warning",
-                f"states near {t(path.T[near].min())} lie close to the critical point of {f.name} "
+                f"states near {t(near_lo)} lie close to the critical point of {f.name} "
                 f"({t(Tc)}): pressure and phase change steeply there and every model is least sure",
             )
         )
@@ -277,7 +246,10 @@ def _margin(
     margin = limit - P_top
     T_reach = a.limit_reached_K.get(name.split()[0])
     if T_reach is None:
-        when = f"not reached up to {t(T_HARD_MAX_K)}, the upper limit of fillcheck's models"
+        when = (
+            f"not reached up to {t(a.highest_computed_K)}, the highest temperature fillcheck "
+            "computes for this model"
+        )
     elif T_reach <= path.T[-1]:
         when = f"reached at {t(T_reach)}"
     else:
@@ -349,3 +321,137 @@ def _pct(x: float) -> str:
 
 def _span(dp: float, system: units.UnitSystem) -> str:
     return f"{dp / 1e5:.1f} bar" if system == "metric" else f"{dp / 6894.757293168361:.0f} psi"
+
+
+VAPOUR_SPACE_WARNING = 0.05
+"""Vapour space at the top of the checked range below which a liquefied charge gets a warning
+where the scenario sets no vapour-space limit of its own [-] (common practice, no source; the
+plan's built-in floor, assess.charge.DEFAULT_VAPOUR_SPACE)."""
+
+
+def _top_liquid_findings(
+    v: VesselInput,
+    a: VesselAssessment,
+    path: VesselPath,
+    t: Callable[[float], str],
+    p: Callable[[float], str],
+    checked: list[str],
+    system: units.UnitSystem,
+) -> list[Finding]:
+    """Liquid at the top of the checked range: liquid-full fails; too little vapour space warns.
+
+    A vessel full of liquid below its critical temperature at the highest temperature it may
+    see is a few kelvin from any limit: its pressure then rises by bar per kelvin."""
+    T_top = float(path.T[-1])
+    checked.append(f"not liquid-full at {t(T_top)}")
+    out: list[Finding] = []
+    if str(path.phase[-1]) == "liquid":
+        reach = a.limit_reached_K.get("allowable")
+        if reach is None:
+            then = f"the allowable pressure is not reached up to {t(a.highest_computed_K)}"
+        elif reach <= T_top:
+            then = f"the allowable pressure is reached already at {t(reach)}"
+        else:
+            then = (
+                f"the allowable pressure {p(v.limits.allowable_pressure_Pa)} would be reached "
+                f"{units.format_temperature_difference(reach - T_top, system)} above it"
+            )
+        full = a.liquid_full_above_K
+        since = f"above {t(full)}" if full is not None else "over the whole range"
+        out.append(
+            Finding(
+                "liquid-full-at-top",
+                "fail",
+                f"liquid fills the whole vessel {since}, so at the top of the checked range, "
+                f"{t(T_top)}, no vapour space is left: the pressure rises by "
+                f"{units.pressure_rate_per_K(a.dP_dT_at_max_Pa_K, system)} there and {then}",
+            )
+        )
+        return out
+    liquid = a.liquid_fraction_at_top
+    if v.limits.min_vapour_space is None and liquid is not None and liquid > 0.0:
+        left = 1.0 - liquid
+        if left < VAPOUR_SPACE_WARNING:
+            out.append(
+                Finding(
+                    "vapour-space-low",
+                    "warning",
+                    f"at {t(T_top)} liquid fills {liquid:.1%} of the vessel, leaving {left:.1%} "
+                    f"vapour space, less than the {VAPOUR_SPACE_WARNING:.0%} fillcheck keeps in "
+                    "its plans; a few kelvin more and the vessel is liquid-full",
+                )
+            )
+    return out
+
+
+def _liquid_warnings(
+    f, a: VesselAssessment, path: VesselPath, t: Callable[[float], str], system
+) -> list[Finding]:
+    """Liquid present in the checked range, and a liquid-full window below its top."""
+    out: list[Finding] = []
+    T_lo, T_hi = float(path.T[0]), float(path.T[-1])
+    mixture = getattr(f, "is_mixture", False)
+    if mixture:
+        has_liquid = np.isin(path.phase, ("two-phase", "liquid"))
+        if not np.any(has_liquid):
+            return out
+        T_liq = path.T[has_liquid]
+        lo_liq, hi_liq = float(T_liq.min()), float(T_liq.max())
+        edge = a.liquid_forms_below_K
+        if edge is not None and hi_liq < T_hi and edge > hi_liq:
+            hi_liq = min(edge, T_hi)  # the exact crossing, not the grid point
+        window = np.any(path.phase[:-1] == "liquid")
+    else:
+        edge = a.liquid_forms_below_K  # dew temperature, or Tc for a dense charge
+        if edge is None or edge <= T_lo:
+            return out
+        lo_liq, hi_liq = T_lo, min(edge, T_hi)
+        full = a.liquid_full_above_K
+        window = full is not None and full < min(T_hi, f.model_critical[0])
+    said = (
+        "the mixture was filled as a gas, and while liquid is present the gas drawn off "
+        "is not the composition on the label"
+        if a.liquefied is False
+        else "the gas drawn off changes as liquid evaporates, and a liquefied gas must be "
+        "filled by weight"
+    )
+    out.append(
+        Finding(
+            "liquid-present",
+            "warning",
+            f"liquid is present from {t(lo_liq)} to {t(hi_liq)}: {said}",
+        )
+    )
+    if window and str(path.phase[-1]) != "liquid":
+        upto = min(T_hi, f.model_critical[0]) if not mixture else T_hi
+        out.append(
+            Finding(
+                "liquid-full",
+                "warning",
+                f"liquid fills the whole vessel from {t(a.liquid_full_above_K)} to {t(upto)}, "
+                "below the top of the checked range; the pressure there stays below the top "
+                "pressure, which the limits judge",
+            )
+        )
+    return out
+
+
+def _outside_validity(f, a: VesselAssessment, path: VesselPath) -> tuple[float, float] | None:
+    """The span of the checked range [K] outside the model's validity range, or None.
+
+    Along an isochore the pressure rises with temperature, so the span is exact: below the
+    range's lowest temperature, above its highest, and above the temperature where the
+    pressure reaches the range's upper pressure."""
+    val = f.validity
+    T_lo, T_hi = float(path.T[0]), float(path.T[-1])
+    parts = []
+    if T_lo < val.T_min_K - 1e-9:
+        parts.append((T_lo, min(T_hi, val.T_min_K)))
+    if T_hi > val.T_max_K + 1e-9:
+        parts.append((max(T_lo, val.T_max_K), T_hi))
+    if float(path.P[-1]) > val.P_max_Pa:
+        reach = a.limit_reached_K.get("validity")
+        parts.append((T_lo if reach is None else max(T_lo, reach), T_hi))
+    if not parts:
+        return None
+    return min(x for x, _ in parts), max(y for _, y in parts)

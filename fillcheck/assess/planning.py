@@ -16,10 +16,14 @@ from fillcheck.assess.charge import largest_safe_density
 from fillcheck.assess.vessel import fill_density_mol
 from fillcheck.errors import InputError
 from fillcheck.scenario.resolve import VesselInput
-from fillcheck.thermo.mixture_vessel import band_ends
+from fillcheck.thermo.liquid_band import (
+    GAUGE_UNCERTAINTY,
+    THERMOMETER_UNCERTAINTY_K,
+    in_liquid_band,
+)
 from fillcheck.thermo.vessel import vessel_path
 
-READING_T_UNCERTAINTY_K = 2.0
+READING_T_UNCERTAINTY_K = THERMOMETER_UNCERTAINTY_K
 """How far the gas temperature of a reading may be off (thermometer, gradients) [K]."""
 
 
@@ -31,6 +35,11 @@ class StopRow:
     stop_pressure_Pa: float
     phase: str
     safe_stop_pressure_Pa: float | None
+    weigh: bool = False
+    """The planned charge's stop pressure lies in the band near the vapour pressure
+    (thermo.liquid_band): the pressure does not tell the charge there; weigh the fill."""
+    outside_range: bool = False
+    """The stop pressure lies outside the model's validity range: not vouched for (review)."""
 
 
 @dataclass(frozen=True)
@@ -59,8 +68,21 @@ def stop_table(v: VesselInput, T_ref: float, temperatures_K: np.ndarray) -> Stop
     path = vessel_path(f, T, rho)
     safe = largest_safe_density(f, v, T_ref)
     safe_P = vessel_path(f, T, safe.density_mol).P if safe is not None else None
+    liquid = np.isin(path.phase, ("two-phase", "liquid"))
+    band = liquid | in_liquid_band(f, T, path.P)
+    outside = ~f.validity.contains(T, path.P)
+    if safe_P is not None:
+        band |= in_liquid_band(f, T, safe_P)
+        outside |= ~f.validity.contains(T, safe_P)
     rows = [
-        StopRow(float(t), float(p), str(ph), None if safe_P is None else float(safe_P[i]))
+        StopRow(
+            float(t),
+            float(p),
+            str(ph),
+            None if safe_P is None or band[i] or outside[i] else float(safe_P[i]),
+            bool(band[i]),
+            bool(outside[i]),
+        )
         for i, (t, p, ph) in enumerate(zip(path.T, path.P, path.phase, strict=True))
     ]
     M = f.molar_mass
@@ -97,6 +119,13 @@ class Reading:
     reference_temperature_K: float
     fraction_of_target: float
     fraction_of_max_safe: float | None
+    charge_low_kg: float = float("nan")
+    charge_high_kg: float = float("nan")
+    """The charge band from the gauge's and the thermometer's errors [kg]."""
+    gauge_uncertainty: float = GAUGE_UNCERTAINTY
+    thermometer_uncertainty_K: float = THERMOMETER_UNCERTAINTY_K
+    may_exceed_plan: bool = False
+    """Whether the top of the charge band is above the largest safe charge."""
 
 
 def _source(f) -> str:
@@ -112,11 +141,21 @@ def _source(f) -> str:
     return refs
 
 
-def read_gauge(v: VesselInput, T_ref: float, P_Pa: float, T_K: float) -> Reading:
+def read_gauge(
+    v: VesselInput,
+    T_ref: float,
+    P_Pa: float,
+    T_K: float,
+    gauge: float = GAUGE_UNCERTAINTY,
+    dT: float = THERMOMETER_UNCERTAINTY_K,
+) -> Reading:
     """Interpret a measured pressure [Pa abs] at a gas temperature [K] for this vessel.
 
-    Raises InputError where the reading cannot tell the charge: a liquefied gas in two phases
-    shows its vapour pressure whatever its charge.
+    The charge comes with a band: the corners of the gauge's relative error ``gauge`` and the
+    thermometer's ``dT`` [K] (defaults: thermo.liquid_band, common practice, no source).
+    Raises InputError where the reading cannot tell the charge: within the band near the vapour
+    pressure (thermo.liquid_band, shared with the fill check and the stop table), where a
+    liquefied gas shows its vapour pressure whatever its charge.
     """
     f = v.fluid
     if T_K < f.T_min_saturation:
@@ -124,41 +163,28 @@ def read_gauge(v: VesselInput, T_ref: float, P_Pa: float, T_K: float) -> Reading
             f"vessel '{v.id}': a gas temperature of {T_K - 273.15:.1f} °C is below the triple "
             f"point of {f.name}; check the thermometer reading"
         )
-    rho = float(f.density_molar(np.array([T_K]), np.array([P_Pa]))[0])
-    Tc = f.model_critical[0]
-    if getattr(f, "is_mixture", False) and T_K - READING_T_UNCERTAINTY_K < Tc:
-        # between the dew pressure 2 K colder and the bubble pressure 2 K warmer (and 5 % of
-        # gauge error) the vessel may hold liquid, as within a pure gas's vapour pressure
-        dT = READING_T_UNCERTAINTY_K
-        dew, bubble, _ = band_ends(f, np.array([T_K - dT, T_K + dT]))
-        lo = np.nan_to_num(dew.P[0], nan=np.inf)
-        hi = np.nan_to_num(bubble.P[1], nan=-np.inf)
-        if 0.95 * lo <= P_Pa <= 1.05 * hi:
-            raise InputError(
-                f"vessel '{v.id}': the reading lies between the dew and bubble pressures of "
-                f"{f.name} for a gas temperature within {dT:.0f} K of the one given (and 5 % "
-                "of gauge error), so the vessel may hold liquid and its pressure does not tell "
-                "the charge; weigh it"
-            )
-    elif T_K - READING_T_UNCERTAINTY_K < Tc:
-        Ts = np.clip(
-            np.array([T_K - READING_T_UNCERTAINTY_K, T_K + READING_T_UNCERTAINTY_K]),
-            f.T_min_saturation,
-            Tc - 1e-3,
+    if bool(in_liquid_band(f, np.array([T_K]), np.array([P_Pa]), gauge, dT)[0]):
+        where = (
+            f"between the dew and bubble pressures of {f.name}"
+            if getattr(f, "is_mixture", False)
+            else f"within the vapour pressure of {f.name}, or above it,"
         )
-        lo, hi = f.saturation_molar(Ts).P
-        if 0.95 * lo <= P_Pa <= 1.05 * hi:
-            raise InputError(
-                f"vessel '{v.id}': the reading lies within the vapour pressure of {f.name} for "
-                f"a gas temperature within {READING_T_UNCERTAINTY_K:.0f} K of the one given "
-                "(and 5 % of gauge error), so the vessel may hold liquid and its pressure does "
-                "not tell the charge; weigh it"
-            )
+        raise InputError(
+            f"vessel '{v.id}': the reading lies {where} for a gas temperature within "
+            f"{dT:.0f} K of the one given (and {gauge:.0%} of gauge error), so the vessel may "
+            "hold liquid and its pressure does not tell the charge; weigh it"
+        )
+    rho = float(f.density_molar(np.array([T_K]), np.array([P_Pa]))[0])
+    corners_T = np.array([T_K + dT, T_K - dT])  # warm and high reading: least; cold: most
+    corners_P = np.array([P_Pa * (1.0 - gauge), P_Pa * (1.0 + gauge)])
+    corners_T = np.maximum(corners_T, f.T_min_saturation)
+    rho_band = np.asarray(f.density_molar(corners_T, corners_P), dtype=float)
     st = vessel_path(f, np.array([T_K]), rho)
     settled = float(vessel_path(f, np.array([T_ref]), rho).P[0])
     target = fill_density_mol(v, T_ref)
     safe = largest_safe_density(f, v, T_ref)
     M = f.molar_mass
+    V = v.water_capacity_m3
     return Reading(
         vessel_id=v.id,
         gas=f.name,
@@ -168,9 +194,14 @@ def read_gauge(v: VesselInput, T_ref: float, P_Pa: float, T_K: float) -> Reading
         measured_pressure_Pa=P_Pa,
         gas_temperature_K=T_K,
         phase=str(st.phase[0]),
-        charge_kg=rho * M * v.water_capacity_m3,
+        charge_kg=rho * M * V,
         settled_pressure_Pa=settled,
         reference_temperature_K=T_ref,
         fraction_of_target=rho / target,
         fraction_of_max_safe=None if safe is None else rho / safe.density_mol,
+        charge_low_kg=float(rho_band.min() * M * V),
+        charge_high_kg=float(rho_band.max() * M * V),
+        gauge_uncertainty=gauge,
+        thermometer_uncertainty_K=dT,
+        may_exceed_plan=safe is None or float(rho_band.max()) > safe.density_mol,
     )

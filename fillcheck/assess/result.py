@@ -82,9 +82,14 @@ class VesselAssessment:
     pressure is withheld: a liquefied gas is filled by weight)."""
     liquid_fraction_at_vapour_space_T: float | None = None
     """Fraction of the vessel taken by liquid at the vapour-space temperature [-]."""
+    liquid_fraction_at_top: float | None = None
+    """Fraction of the vessel taken by liquid at the top of the checked range [-]."""
     limit_reached_K: dict[str, float | None] = field(default_factory=dict)
-    """Per pressure limit ("allowable", "relief"), where the isochore reaches it, looking past
-    the storage range up to fillcheck's upper temperature [K]; None if never."""
+    """Per pressure limit ("allowable", "relief", and "validity": the model's upper pressure),
+    where the isochore reaches it, looking past the checked range up to the highest temperature
+    fillcheck computes for the model [K]; None if never."""
+    highest_computed_K: float = 500.0
+    """The highest temperature fillcheck computes for this gas and model [K]."""
     allowable_pressure_Pa: float | None = None
     relief_set_pressure_Pa: float | None = None
     saturation_T_K: np.ndarray = field(default_factory=lambda: np.zeros(0))

@@ -71,16 +71,27 @@ def render_stop_tables(
         table.add_column("phase")
         table.add_column("never above (largest safe charge)", justify="right")
         for r in st.rows:
-            weigh = r.phase in ("two-phase", "liquid")
+            weigh = r.weigh or r.phase in ("two-phase", "liquid")
+            shown = "weigh the fill" if weigh else p(r.stop_pressure_Pa)
+            if r.outside_range and not weigh:
+                shown += " (REVIEW: outside the model's range)"
             table.add_row(
                 t(r.gas_temperature_K),
-                "weigh the fill" if weigh else p(r.stop_pressure_Pa),
+                shown,
                 r.phase,
                 "weigh the fill" if weigh else p(r.safe_stop_pressure_Pa),
             )
         console.print(table)
         console.print(f"Model: {st.model_name} ({st.model}); {st.model_source}")
-        if any(r.phase in ("two-phase", "liquid") for r in st.rows):
+        if any(r.outside_range for r in st.rows):
+            console.print(
+                Text(
+                    "REVIEW: some stop pressures lie outside the range where the model's "
+                    "numbers are vouched for; no safe stop pressure is printed there.",
+                    style="bold",
+                )
+            )
+        if any(r.weigh or r.phase in ("two-phase", "liquid") for r in st.rows):
             console.print(
                 Text(
                     "Liquid is present at some of these temperatures: fill this gas by weight "
@@ -102,6 +113,12 @@ def render_reading(r: Reading, console: Console, system: units.UnitSystem, atm: 
         f"{units.format_mass(r.charge_kg, system)}, settling at {p(r.settled_pressure_Pa)} at "
         f"{t(r.reference_temperature_K)}."
     )
+    console.print(
+        f"With the gauge within ±{r.gauge_uncertainty:.0%} of its reading and the gas "
+        f"temperature within ±{r.thermometer_uncertainty_K:g} K, the charge lies between "
+        f"{units.format_mass(r.charge_low_kg, system)} and "
+        f"{units.format_mass(r.charge_high_kg, system)}."
+    )
     line = f"That is {r.fraction_of_target:.1%} of the planned charge"
     if r.fraction_of_max_safe is not None:
         line += f" and {r.fraction_of_max_safe:.1%} of the largest safe charge"
@@ -109,6 +126,14 @@ def render_reading(r: Reading, console: Console, system: units.UnitSystem, atm: 
     if r.fraction_of_max_safe is not None and r.fraction_of_max_safe > 1.0:
         console.print(
             Text("Above the largest safe charge: do not store it this full.", style="bold red")
+        )
+    elif r.may_exceed_plan:
+        console.print(
+            Text(
+                "Within the gauge's and the thermometer's errors the charge may be over the "
+                "largest safe charge: weigh it before storing it.",
+                style="bold red",
+            )
         )
     console.print(f"Model: {r.model_name} ({r.model}); {r.model_source}")
     console.print(Text(PLANNING_CAUTION, style="italic"))

@@ -29,11 +29,17 @@ from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
 from fillcheck.scenario.source import read_input
 from fillcheck.scenario.text import neutralise
 from fillcheck.thermo.fluid import Fluid
+from fillcheck.thermo.limits import FIRE_TEMPERATURE_K, highest_temperature_K
+from fillcheck.thermo.liquid_band import (
+    GAUGE_UNCERTAINTY,
+    THERMOMETER_UNCERTAINTY_K,
+    in_liquid_band,
+)
 from fillcheck.thermo.mixture_fluid import FRACTION_SUM_TOLERANCE, MixtureFluid
 
-T_HARD_MAX_K = 500.0
-"""Temperatures above this are refused outright: no catalog constant or correlation in
-fillcheck is meant for them (between the measured range and this, checks say "review")."""
+T_HARD_MAX_K = FIRE_TEMPERATURE_K
+"""Temperatures above this are computed only up to the model's published range
+(thermo.limits.highest_temperature_K) and carry a fire caution."""
 
 PACKING_LIMIT = 0.98
 """Fraction of the model's covolume limit 1/(b − c) above which a charge is refused: no liquid
@@ -173,7 +179,7 @@ def scenario_from_dict(
         if vid in seen:
             raise w.fail("id", "the id is used twice; give every vessel its own id")
         seen.add(vid)
-        vessels.append(_vessel(v, w, P_atm, user_gases, fluids))
+        vessels.append(_vessel(v, w, P_atm, user_gases, fluids, T_ref))
     return Scenario(name, spec.title, T_ref, P_atm, tuple(vessels))
 
 
@@ -447,6 +453,7 @@ def _vessel(
     P_atm: float,
     user_gases: dict[str, FluidData],
     fluids: dict[Any, Any],
+    T_ref: float,
 ) -> VesselInput:
     fluid, note, notes = _fluid_for(v, where, user_gases, fluids)
     entered: dict[str, str] = {"water_capacity": v.water_capacity}
@@ -523,7 +530,7 @@ def _vessel(
             'when the pressure is read, e.g. temperature = "15 degC"',
         )
     if kind.endswith("pressure"):
-        T_read = T_fill if kind == "pressure" else None
+        T_read = T_fill if kind == "pressure" else T_ref
         _refuse_liquefied_pressure_fill(fluid, kind, value, T_read, text, where)
     entered["storage.max_temperature"] = v.storage.max_temperature
     T_max = _temperature(v.storage.max_temperature, "storage.max_temperature", where, fluid)
@@ -558,42 +565,34 @@ def _vessel(
     )
 
 
-LIQUEFIED_BAND = 0.98
-"""A pressure fill within 2 % of the vapour pressure (or above it) is refused: there the
-pressure does not fix the charge of a liquefied gas."""
-
-
 def _refuse_liquefied_pressure_fill(
-    fluid: Fluid, kind: str, P: float, T: float | None, text: str, where: _Where
+    fluid: Fluid, kind: str, P: float, T: float, text: str, where: _Where
 ) -> None:
-    """Refuse a fill by pressure where the gas would be liquid at that pressure."""
-    Tc = fluid.model_critical[0]
-    if T is None or T >= Tc:
+    """Refuse a fill by pressure (or settled pressure, read at the reference temperature) inside
+    the band where the vessel may hold liquid (thermo.liquid_band, the rule every command
+    shares): there the pressure does not tell the charge."""
+    if not bool(in_liquid_band(fluid, np.array([T]), np.array([P]))[0]):
         return
+    at = "the fill temperature" if kind == "pressure" else "the reference temperature"
     if isinstance(fluid, MixtureFluid):
-        # a mixture has no single vapour pressure: refuse where liquid would be present at a
-        # pressure 2 % higher (the same band as for a pure gas)
-        P_up = np.array([P / LIQUEFIED_BAND])
-        rho = fluid.density_molar(np.array([T]), P_up)
-        phase = str(fluid.vessel_path(np.array([T]), rho).phase[0])
-        if phase in ("two-phase", "liquid"):
-            raise where.fail(
-                "fill." + kind,
-                f"'{text}' lies where {fluid.name} holds liquid at the fill temperature (within "
-                f"{1 - LIQUEFIED_BAND:.0%} of the pressure at which liquid forms): there the "
-                "pressure does not tell the charge; give fill.mass (weigh the fill) or "
-                "fill.filling_ratio instead",
-            )
-        return
-    Psat = float(fluid.saturation_molar(np.array([T])).P[0])
-    if P >= LIQUEFIED_BAND * Psat:
-        raise where.fail(
-            "fill." + kind,
-            f"'{text}' is at or above {LIQUEFIED_BAND:.0%} of the vapour pressure of "
-            f"{fluid.name} at the fill temperature ({Psat / 1e5:.2f} bara): there the pressure "
-            "does not tell the charge of a liquefied gas; give fill.mass (weigh the fill) or "
-            "fill.filling_ratio instead",
+        said = (
+            f"lies where {fluid.name} may hold liquid at {at} (between its dew and bubble "
+            f"pressures for a gas temperature within {THERMOMETER_UNCERTAINTY_K:.0f} K, with "
+            f"{GAUGE_UNCERTAINTY:.0%} of gauge error)"
         )
+    else:
+        cold = max(T - THERMOMETER_UNCERTAINTY_K, fluid.T_min_saturation)
+        Psat = float(fluid.saturation_molar(np.array([cold])).P[0])
+        said = (
+            f"is within {GAUGE_UNCERTAINTY:.0%} of the vapour pressure of {fluid.name} "
+            f"{THERMOMETER_UNCERTAINTY_K:.0f} K below {at} ({Psat / 1e5:.2f} bara), or above it, "
+            "where the vessel may hold liquid"
+        )
+    raise where.fail(
+        "fill." + kind,
+        f"'{text}' {said}: there the pressure does not tell the charge; give fill.mass (weigh "
+        "the fill) or fill.filling_ratio instead",
+    )
 
 
 RULE_CLASSES = {
@@ -651,11 +650,13 @@ def _temperature(text: str, field: str, where: _Where, fluid: Fluid) -> float:
             f"'{text}' is below the triple point of {fluid.name} "
             f"({Tt - 273.15:.1f} °C), where it is a solid; give a higher temperature",
         )
-    if T > T_HARD_MAX_K:
+    T_top = highest_temperature_K(fluid)
+    if T > T_top:
         raise where.fail(
             field,
-            f"'{text}' is above {T_HARD_MAX_K - 273.15:.0f} °C, beyond the "
-            "range of fillcheck's models; give a storage temperature a vessel can see",
+            f"'{text}' is above {T_top - 273.15:.0f} °C, the highest temperature fillcheck "
+            f"computes for {fluid.name} with the {fluid.model} model (the upper end of its "
+            "published range); give a lower temperature",
         )
     return T
 

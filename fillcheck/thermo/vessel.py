@@ -124,51 +124,82 @@ def saturation_crossing(fluid: Fluid, rho_mol: float) -> tuple[SaturationCrossin
         between the triple point and the critical temperature. For "liquid-full", a vessel that
         is liquid-full already at the triple point returns the triple-point temperature.
 
-    The saturated density is monotone in temperature and, near the critical point, close to
-    linear in √(Tc − T); the root is found by the Illinois variant of regula falsi in
-    s = √(Tc − T), which converges superlinearly and cannot leave its bracket. A mixture finds
-    where its isochore leaves the two-phase region by its own stability test.
+    One vessel is a batch of one of :func:`saturation_crossings`. A mixture finds where its
+    isochore leaves the two-phase region by its own stability test.
     """
     if getattr(fluid, "is_mixture", False):
         return fluid.saturation_crossing(rho_mol)
+    full, T = saturation_crossings(fluid, np.array([float(rho_mol)]))
+    return ("liquid-full" if full[0] else "dew"), (None if np.isnan(T[0]) else float(T[0]))
+
+
+def saturation_crossings(fluid: Fluid, rho_mol: FloatArray) -> tuple[np.ndarray, np.ndarray]:
+    """Where the isochores of overall densities ρ [mol/m³] meet the saturation curve (pure fluid).
+
+    Returns ``(full, T)``: ``full`` is True where ρ ≥ ρc (the crossing is the liquid-full
+    temperature, liquid fills the vessel above it) and False where ρ < ρc (the dew temperature,
+    liquid is present below it); ``T`` [K] is NaN where a dew isochore stays gas down to the
+    triple point, and the triple-point temperature where a dense isochore is liquid-full there.
+
+    The saturated density is monotone in temperature and, near the critical point, close to
+    linear in s = √(Tc − T); each root is found by the Illinois variant of regula falsi in s,
+    which converges superlinearly and cannot leave its bracket. All vessels iterate together
+    (one saturation call per step for those not yet converged), so one vessel and a register
+    of thousands follow the same arithmetic and get the same crossing.
+    """
+    rho = np.atleast_1d(np.asarray(rho_mol, dtype=float)).ravel()
     Tc, _, rhoc = fluid.model_critical
     T_min = fluid.T_min_saturation
-    kind: SaturationCrossing = "dew" if rho_mol < rhoc else "liquid-full"
-    branch = "rho_vapor" if kind == "dew" else "rho_liquid"
+    full = rho >= rhoc
+    n = rho.size
+    T_out = np.full(n, np.nan)
 
-    def f(s: float) -> float:
-        if s * s <= 1e-10 * Tc:  # at the critical point to round-off
-            return float(np.log(rhoc / rho_mol))
-        sat = fluid.saturation_molar(np.array([Tc - s * s]))
-        return float(np.log(getattr(sat, branch)[0] / rho_mol))
+    def f(s: np.ndarray, idx: np.ndarray) -> np.ndarray:
+        out = np.log(rhoc / rho[idx])  # at the critical point to round-off
+        ok = s * s > 1e-10 * Tc
+        if np.any(ok):
+            sat = fluid.saturation_molar(Tc - s[ok] ** 2)
+            branch = np.where(full[idx][ok], sat.rho_liquid, sat.rho_vapor)
+            out[ok] = np.log(branch / rho[idx][ok])
+        return out
 
-    s_hi = float(np.sqrt(Tc - T_min))
-    f_hi = f(s_hi)
+    all_idx = np.arange(n)
+    s_hi = np.full(n, float(np.sqrt(Tc - T_min)))
+    f_hi = f(s_hi, all_idx)
     # dew: ρ_v,sat falls as s grows (cooling); liquid-full: ρ_l,sat rises as s grows.
-    if kind == "dew" and f_hi >= 0.0:
-        return kind, None  # still all gas at the triple point
-    if kind == "liquid-full" and f_hi <= 0.0:
-        return kind, T_min  # liquid-full already at the triple point
-    if abs(rho_mol / rhoc - 1.0) < 1e-9:  # the critical isochore meets the curve at Tc
-        return kind, Tc
-    s_lo, f_lo = 0.0, f(0.0)
-    side = 0
+    gas_at_triple = ~full & (f_hi >= 0.0)
+    full_at_triple = full & (f_hi <= 0.0)
+    T_out[full_at_triple] = T_min
+    critical = np.abs(rho / rhoc - 1.0) < 1e-9  # the critical isochore meets the curve at Tc
+    T_out[critical & ~gas_at_triple & ~full_at_triple] = Tc
+    active = ~(gas_at_triple | full_at_triple | critical)
+    s_lo = np.zeros(n)
+    f_lo = np.log(rhoc / rho)
+    side = np.zeros(n)
     for _ in range(200):
-        s = (s_lo * f_hi - s_hi * f_lo) / (f_hi - f_lo)
-        if not (s_lo < s < s_hi):
-            s = 0.5 * (s_lo + s_hi)
-        fs = f(s)
+        idx = np.flatnonzero(active)
+        if idx.size == 0:
+            return full, T_out
+        lo, hi, flo, fhi = s_lo[idx], s_hi[idx], f_lo[idx], f_hi[idx]
+        with np.errstate(invalid="ignore", divide="ignore"):
+            s = (lo * fhi - hi * flo) / (fhi - flo)
+        s = np.where((s > lo) & (s < hi), s, 0.5 * (lo + hi))
+        fs = f(s, idx)
         # ΔT = 2 s Δs: a bracket of 1e-9 √K in s is far below a microkelvin
-        if abs(fs) < 1e-13 or (s_hi - s_lo) < 1e-9:
-            return kind, Tc - s * s
-        if (fs > 0.0) == (f_lo > 0.0):
-            s_lo, f_lo = s, fs
-            if side == -1:
-                f_hi *= 0.5
-            side = -1
-        else:
-            s_hi, f_hi = s, fs
-            if side == 1:
-                f_lo *= 0.5
-            side = 1
-    raise ConvergenceError(f"saturation crossing of the isochore at {rho_mol:.6g} mol/m³")
+        done = (np.abs(fs) < 1e-13) | ((hi - lo) < 1e-9)
+        T_out[idx[done]] = Tc - s[done] ** 2
+        active[idx[done]] = False
+        same = (fs > 0.0) == (flo > 0.0)
+        move_lo = ~done & same
+        move_hi = ~done & ~same
+        j = idx[move_lo]
+        s_lo[j], f_lo[j] = s[move_lo], fs[move_lo]
+        f_hi[j] = np.where(side[j] == -1, 0.5 * f_hi[j], f_hi[j])
+        side[j] = -1
+        j = idx[move_hi]
+        s_hi[j], f_hi[j] = s[move_hi], fs[move_hi]
+        f_lo[j] = np.where(side[j] == 1, 0.5 * f_lo[j], f_lo[j])
+        side[j] = 1
+    raise ConvergenceError(
+        f"saturation crossing of the isochore at {rho[active][0]:.6g} mol/m³ did not converge"
+    )
