@@ -249,15 +249,15 @@ CASES: list[Bad] = [
     ),
     Bad(
         "temperature_above_model_range",
-        scenario(vessel(storage='{ max_temperature = "600 degC" }')),
+        scenario(vessel(storage='{ max_temperature = "1800 degC" }')),
         "storage.max_temperature",
-        ("600 degC", ("range", "above")),
+        ("1800 degC", ("range", "above")),
     ),
     Bad(
         "fill_temperature_above_model_range",
-        scenario(vessel(fill='{ pressure = "150 barg", temperature = "300 degC" }')),
+        scenario(vessel(fill='{ pressure = "150 barg", temperature = "1800 degC" }')),
         "fill.temperature",
-        ("300 degC", ("range", "above")),
+        ("1800 degC", ("range", "above")),
     ),
     Bad(
         "min_temperature_above_max_temperature",

@@ -576,9 +576,9 @@ def _refuse_liquefied_pressure_fill(
     at = "the fill temperature" if kind == "pressure" else "the reference temperature"
     if isinstance(fluid, MixtureFluid):
         said = (
-            f"lies where {fluid.name} may hold liquid at {at} (between its dew and bubble "
-            f"pressures for a gas temperature within {THERMOMETER_UNCERTAINTY_K:.0f} K, with "
-            f"{GAUGE_UNCERTAINTY:.0%} of gauge error)"
+            f"lies where {fluid.name} may hold liquid at {at} (at or above the lower of its "
+            f"dew and bubble pressures for a gas temperature within "
+            f"{THERMOMETER_UNCERTAINTY_K:.0f} K, with {GAUGE_UNCERTAINTY:.0%} of gauge error)"
         )
     else:
         cold = max(T - THERMOMETER_UNCERTAINTY_K, fluid.T_min_saturation)

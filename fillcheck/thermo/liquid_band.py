@@ -4,8 +4,9 @@ A pressure read at a gas temperature fixes the charge only where the gas is sure
 phase. With a thermometer that may be off by ±dT and a gauge off by ±g of its reading, a pure gas
 may hold liquid once the reading comes within the gauge's error of the vapour pressure at the
 coldest temperature the gas may really have, P ≥ (1 − g)·P_sat(T − dT); above it, the vessel may
-be full of liquid, whose pressure changes by bar per kelvin. For a mixture the band runs from the
-dew pressure at T − dT to the bubble pressure at T + dT, each widened by the gauge error.
+be full of liquid, whose pressure changes by bar per kelvin. For a mixture the band starts at the
+lower of the dew pressure at T − dT and the bubble pressure at T + dT, less the gauge error;
+above the band lies the compressed liquid, which is refused for the same reason.
 
 One rule for every command: a fill by pressure or by settled pressure (`check`), a gauge reading
 (`reading`) and a stop pressure (`stop-table`, the plan's stop pressure) all use this band.
@@ -67,8 +68,5 @@ def in_liquid_band(
     dT: float = THERMOMETER_UNCERTAINTY_K,
 ) -> np.ndarray:
     """True where a pressure P [Pa abs] read at T [K] may belong to a vessel holding liquid."""
-    lo, hi = liquid_band_floor(fluid, T, gauge, dT)
-    P = np.asarray(P, dtype=float)
-    if getattr(fluid, "is_mixture", False):
-        return (P >= lo) & (P <= hi)
-    return P >= lo
+    lo, _ = liquid_band_floor(fluid, T, gauge, dT)
+    return np.asarray(P, dtype=float) >= lo
