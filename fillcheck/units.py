@@ -391,9 +391,18 @@ def format_temperature_difference(K: float, system: UnitSystem = "metric", digit
     return f"{_num(K / _F_K, digits)} °F" if _us(system) else f"{_num(K, digits)} K"
 
 
-def format_mass(kg: float, system: UnitSystem = "metric", digits: int = 2) -> str:
-    """Show a mass [kg] as ``kg`` (metric) or ``lb`` (us), e.g. ``"8.87 kg"``."""
-    return f"{_num(kg / _LB_kg, digits)} lb" if _us(system) else f"{_num(kg, digits)} kg"
+def format_mass(
+    kg: float, system: UnitSystem = "metric", digits: int = 2, down: bool = False
+) -> str:
+    """Show a mass [kg] as ``kg`` (metric) or ``lb`` (us), e.g. ``"8.87 kg"``.
+
+    With ``down`` the figure is rounded down in the unit shown (a largest safe charge must never
+    be printed above itself); a value already on the shown resolution, to 1e-9 of it, is kept."""
+    x = kg / _LB_kg if _us(system) else kg
+    if down and math.isfinite(x):
+        q = 10.0 ** (-digits)
+        x = math.floor(x / q + 1e-9) * q
+    return f"{_num(x, digits)} lb" if _us(system) else f"{_num(x, digits)} kg"
 
 
 def format_volume(m3: float, system: UnitSystem = "metric", digits: int = 1) -> str:

@@ -23,6 +23,7 @@ from fillcheck.assess.mixture_findings import dropout_at_coldest, mixture_findin
 from fillcheck.assess.result import EndState, VesselAssessment
 from fillcheck.assess.uncertainty import pressure_uncertainty
 from fillcheck.scenario.resolve import VesselInput
+from fillcheck.thermo.bracketed import illinois
 from fillcheck.thermo.fluid import Fluid
 from fillcheck.thermo.limits import FIRE_TEMPERATURE_K, highest_temperature_K
 from fillcheck.thermo.vessel import VesselPath, saturation_crossings, vessel_path
@@ -92,42 +93,29 @@ def exact_reach(
     (NaN where it does not on the grid's span), solved on the isochore itself.
 
     The grid only brackets the crossing; the root of P(T, ρ) = limit is then refined by the
-    Illinois variant of regula falsi, vectorised over the vessels, to a millikelvin for a
-    mixture and a microkelvin otherwise. Along an isochore P rises with T, so the bracket holds
-    one root; a vessel at or above the limit at the bottom of the grid reaches it there."""
+    shared bracketed solver (thermo.bracketed), all vessels together, to a millikelvin for a
+    mixture and a microkelvin otherwise, and the upper end of the final bracket is returned
+    (the limit is reached there, never below the root). Along an isochore P rises with T, so
+    the bracket holds one root; a vessel at or above the limit at the bottom of the grid
+    reaches it there."""
     x, a, b = _bracket(T, P, limit)
     out = x.copy()
     idx = np.flatnonzero(np.isfinite(x) & (b > a))
     if idx.size == 0:
         return out
     mixture = getattr(f, "is_mixture", False)
-    tol = 1e-3 if mixture else 1e-6
     a, b, r, L = a[idx], b[idx], rho[idx], limit[idx]
-    fa = vessel_path(f, a, r).P - L
-    fb = vessel_path(f, b, r).P - L
-    side = np.zeros(idx.size)
-    active = np.ones(idx.size, dtype=bool)
-    for _ in range(60):
-        j = np.flatnonzero(active)
-        if j.size == 0:
-            break
-        with np.errstate(invalid="ignore", divide="ignore"):
-            t = (a[j] * fb[j] - b[j] * fa[j]) / (fb[j] - fa[j])
-        t = np.where((t > a[j]) & (t < b[j]), t, 0.5 * (a[j] + b[j]))
-        ft = vessel_path(f, t, r[j]).P - L[j]
-        left = ft < 0.0  # the root lies above t
-        k = j[left]
-        a[k], fa[k] = t[left], ft[left]
-        fb[k] = np.where(side[k] == -1, 0.5 * fb[k], fb[k])
-        side[k] = -1
-        k = j[~left]
-        b[k], fb[k] = t[~left], ft[~left]
-        fa[k] = np.where(side[k] == 1, 0.5 * fa[k], fa[k])
-        side[k] = 1
-        active[j] = (b[j] - a[j]) > tol
-    out[idx] = np.where(fb == 0.0, b, 0.5 * (a + b))
-    # the first T at which P ≥ limit: never below the bracket's lower end
-    out[idx] = np.clip(out[idx], a, b)
+    found = illinois(
+        lambda j, t: vessel_path(f, t, r[j]).P - L[j],
+        a,
+        b,
+        vessel_path(f, a, r).P - L,
+        vessel_path(f, b, r).P - L,
+        width=1e-3 if mixture else 1e-6,
+        max_iter=60,
+    )
+    # the first T at which P ≥ limit: the bracket's upper end, where the limit is reached
+    out[idx] = found.b
     return out
 
 

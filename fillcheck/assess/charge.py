@@ -44,6 +44,7 @@ import numpy as np
 from fillcheck.assess.checked_range import checked_ranges
 from fillcheck.assess.rules import rule_limits
 from fillcheck.assess.uncertainty import pressure_uncertainty
+from fillcheck.thermo.bracketed import illinois
 from fillcheck.thermo.vessel import vessel_path
 
 if TYPE_CHECKING:
@@ -236,35 +237,18 @@ def _last_keeping(
     """Per element, the largest density in [a, c] with excess ≤ 0, to a relative ``tol``.
 
     ``excess(idx, rho)`` rises with ρ (it may jump up where a phase ends); a is known to keep the
-    margin and c not. Regula falsi with the Illinois modification, vectorised: it converges
-    superlinearly, never leaves the bracket, and returns the bracket's keeping end, so the
-    answer is on the safe side of the root."""
-    n = a.size
-    all_idx = np.arange(n)
+    margin and c not. The shared bracketed solver (thermo.bracketed) shrinks the bracket and
+    the keeping end is returned, so the answer is on the safe side of the root."""
+    all_idx = np.arange(a.size)
     fa = excess(all_idx, np.maximum(a, 1e-300)) if fa is None else fa
     fc = excess(all_idx, c)
-    side = np.zeros(n)
-    active = fc > 0.0
-    for _ in range(200):
-        j = np.flatnonzero(active)
-        if j.size == 0:
-            break
-        with np.errstate(invalid="ignore", divide="ignore"):
-            m = (a[j] * fc[j] - c[j] * fa[j]) / (fc[j] - fa[j])
-        m = np.where((m > a[j]) & (m < c[j]), m, 0.5 * (a[j] + c[j]))
-        fm = excess(j, m)
-        keep = fm <= 0.0
-        k = j[keep]
-        a[k], fa[k] = m[keep], fm[keep]
-        fc[k] = np.where(side[k] == -1, 0.5 * fc[k], fc[k])
-        side[k] = -1
-        k = j[~keep]
-        c[k], fc[k] = m[~keep], fm[~keep]
-        fa[k] = np.where(side[k] == 1, 0.5 * fa[k], fa[k])
-        side[k] = 1
-        active[j] = (c[j] - a[j]) > tol * c[j]
-    a = np.where(fc <= 0.0, c, a)  # the whole bracket keeps the margin (to round-off)
-    return np.where(np.isfinite(a), a, np.nan)
+    whole = fc <= 0.0  # the whole bracket keeps the margin (to round-off)
+    out = np.array(c, dtype=float, copy=True)
+    j = np.flatnonzero(~whole)
+    if j.size:
+        found = illinois(lambda k, r: excess(j[k], r), a[j], c[j], fa[j], fc[j], width=tol * c[j])
+        out[j] = found.a
+    return np.where(np.isfinite(out), out, np.nan)
 
 
 def vapour_space_bound(

@@ -55,6 +55,10 @@ class Formatter:
     def m(self, x: float) -> str:
         return units.format_mass(x, self.system)
 
+    def m_down(self, x: float) -> str:
+        """A largest safe charge: rounded down in the unit shown."""
+        return units.format_mass(x, self.system, down=True)
+
 
 def publication(source: str) -> str:
     """The publication part of a catalog source note (the rest stays in the catalog)."""
@@ -113,7 +117,7 @@ def result_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
         rows.append(
             (
                 "largest safe charge",
-                f"{fmt.m(_floor(v.max_safe_charge_kg))} ({v.governing_limit} governs)",
+                f"{fmt.m_down(v.max_safe_charge_kg)} ({v.governing_limit} governs)",
             )
         )
     return rows
@@ -132,7 +136,7 @@ def fill_plan(v: VesselAssessment, fmt: Formatter) -> str:
         out.append("No charge keeps every limit entered: do not fill this vessel.")
     else:
         s = "The largest charge keeping every limit: " if out else "Fill plan: "
-        s += f"up to {fmt.m(_floor(v.max_safe_charge_kg))} per vessel"
+        s += f"up to {fmt.m_down(v.max_safe_charge_kg)} per vessel"
         if v.fill_by_weight:
             s += (
                 ", filled by weight: at this charge the vessel holds liquid at the fill "
@@ -145,13 +149,6 @@ def fill_plan(v: VesselAssessment, fmt: Formatter) -> str:
             )
         out.append(s + f" ({v.governing_limit} governs).")
     return " ".join(out)
-
-
-def _floor(kg: float) -> float:
-    """A charge rounded down to the 10 g a report shows, so a printed plan never exceeds it."""
-    import math
-
-    return math.floor(kg * 100.0) / 100.0
 
 
 def sorted_findings(v: VesselAssessment) -> list[Finding]:

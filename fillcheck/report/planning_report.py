@@ -46,8 +46,9 @@ def render_stop_tables(
             f"{p(st.settled_pressure_Pa)} at {t(st.reference_temperature_K)}."
         )
         if st.max_safe_charge_kg is not None:
+            plan = units.format_mass(st.max_safe_charge_kg, system, down=True)
             console.print(
-                f"Largest safe charge: {units.format_mass(st.max_safe_charge_kg, system)} "
+                f"Largest safe charge: {plan} "
                 f"({st.governing_limit} governs)."
             )
             if st.target_charge_kg > st.max_safe_charge_kg:

@@ -22,6 +22,7 @@ import numpy as np
 
 from fillcheck.errors import ConvergenceError, StateError
 from fillcheck.models.base import FloatArray
+from fillcheck.thermo.bracketed import illinois
 from fillcheck.thermo.properties import residual_enthalpy_over_RT
 
 if TYPE_CHECKING:
@@ -142,10 +143,9 @@ def saturation_crossings(fluid: Fluid, rho_mol: FloatArray) -> tuple[np.ndarray,
     triple point, and the triple-point temperature where a dense isochore is liquid-full there.
 
     The saturated density is monotone in temperature and, near the critical point, close to
-    linear in s = √(Tc − T); each root is found by the Illinois variant of regula falsi in s,
-    which converges superlinearly and cannot leave its bracket. All vessels iterate together
-    (one saturation call per step for those not yet converged), so one vessel and a register
-    of thousands follow the same arithmetic and get the same crossing.
+    linear in s = √(Tc − T); each root is found in s by the shared bracketed solver
+    (thermo.bracketed), all vessels together, so one vessel and a register of thousands follow
+    the same arithmetic and get the same crossing.
     """
     rho = np.atleast_1d(np.asarray(rho_mol, dtype=float)).ravel()
     Tc, _, rhoc = fluid.model_critical
@@ -173,33 +173,22 @@ def saturation_crossings(fluid: Fluid, rho_mol: FloatArray) -> tuple[np.ndarray,
     critical = np.abs(rho / rhoc - 1.0) < 1e-9  # the critical isochore meets the curve at Tc
     T_out[critical & ~gas_at_triple & ~full_at_triple] = Tc
     active = ~(gas_at_triple | full_at_triple | critical)
-    s_lo = np.zeros(n)
-    f_lo = np.log(rhoc / rho)
-    side = np.zeros(n)
-    for _ in range(200):
-        idx = np.flatnonzero(active)
-        if idx.size == 0:
-            return full, T_out
-        lo, hi, flo, fhi = s_lo[idx], s_hi[idx], f_lo[idx], f_hi[idx]
-        with np.errstate(invalid="ignore", divide="ignore"):
-            s = (lo * fhi - hi * flo) / (fhi - flo)
-        s = np.where((s > lo) & (s < hi), s, 0.5 * (lo + hi))
-        fs = f(s, idx)
-        # ΔT = 2 s Δs: a bracket of 1e-9 √K in s is far below a microkelvin
-        done = (np.abs(fs) < 1e-13) | ((hi - lo) < 1e-9)
-        T_out[idx[done]] = Tc - s[done] ** 2
-        active[idx[done]] = False
-        same = (fs > 0.0) == (flo > 0.0)
-        move_lo = ~done & same
-        move_hi = ~done & ~same
-        j = idx[move_lo]
-        s_lo[j], f_lo[j] = s[move_lo], fs[move_lo]
-        f_hi[j] = np.where(side[j] == -1, 0.5 * f_hi[j], f_hi[j])
-        side[j] = -1
-        j = idx[move_hi]
-        s_hi[j], f_hi[j] = s[move_hi], fs[move_hi]
-        f_lo[j] = np.where(side[j] == 1, 0.5 * f_lo[j], f_lo[j])
-        side[j] = 1
+    idx = np.flatnonzero(active)
+    found = illinois(
+        lambda j, s: f(s, idx[j]),
+        np.zeros(idx.size),
+        s_hi[idx],
+        np.log(rhoc / rho[idx]),
+        f_hi[idx],
+        width=1e-9,  # ΔT = 2 s Δs: a bracket of 1e-9 √K in s is far below a microkelvin
+        ftol=1e-13,
+    )
+    s = 0.5 * (found.a + found.b)
+    T_out[idx] = Tc - s**2
+    if np.all(found.converged):
+        return full, T_out
+    active[:] = False
+    active[idx[~found.converged]] = True
     raise ConvergenceError(
         f"saturation crossing of the isochore at {rho[active][0]:.6g} mol/m³ did not converge"
     )
