@@ -257,16 +257,30 @@ def reading_command(
         str,
         typer.Option("--temperature", help="Gas temperature, e.g. '30 degC'.", show_default=False),
     ],
+    gauge_error: Annotated[
+        str,
+        typer.Option(
+            "--gauge-error", help="The gauge's error as a share of its reading, e.g. '2 %'."
+        ),
+    ] = "5 %",
+    thermometer_error: Annotated[
+        str,
+        typer.Option("--thermometer-error", help="How far the gas temperature may be off."),
+    ] = "2 K",
     json_out: Annotated[bool, typer.Option("--json", help="JSON instead of text.")] = False,
     units: Annotated[Units, typer.Option("--units", help="Display units.")] = Units.metric,
 ) -> None:
     """Read a gauge: the charge, the settled pressure and how full the vessel is.
+
+    The charge is given as a band from the gauge's and the thermometer's errors (defaults 5 %
+    and 2 K, common practice); near the vapour pressure the reading is refused: weigh it.
 
     \b
     Example:
       fillcheck reading scenarios/welding_supply_refill.toml --vessel AR-50-014 \\
           --pressure "215 barg" --temperature "35 degC"
     """
+    from fillcheck import units as u
     from fillcheck.assess.planning import read_gauge
     from fillcheck.report.planning_report import planning_json, render_reading
     from fillcheck.scenario.resolve import load_scenario, option_pressure, option_temperature
@@ -276,7 +290,15 @@ def reading_command(
         v = _pick(sc, vessel)[0]
         P = option_pressure(sc, v, "--pressure", pressure)
         T = option_temperature(sc, v, "--temperature", temperature)
-        r = read_gauge(v, sc.reference_temperature_K, P, T)
+        g = _option(u.parse_fraction, gauge_error, "--gauge-error")
+        dT = _option(u.parse_temperature_difference, thermometer_error, "--thermometer-error")
+        if not 0.0 <= g <= 0.25:
+            raise InputError(f"option --gauge-error: {gauge_error!r} is not between 0 % and 25 %")
+        if not 0.0 <= dT <= 20.0:
+            raise InputError(
+                f"option --thermometer-error: {thermometer_error!r} is not between 0 K and 20 K"
+            )
+        r = read_gauge(v, sc.reference_temperature_K, P, T, g, dT)
     if json_out:
         typer.echo(planning_json(r))
     else:

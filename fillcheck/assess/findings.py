@@ -369,7 +369,10 @@ def _top_liquid_findings(
         )
         return out
     liquid = a.liquid_fraction_at_top
-    if v.limits.min_vapour_space is None and liquid is not None and liquid > 0.0:
+    # only a vessel holding liquid and vapour at the top has a vapour space to lose; a dense
+    # supercritical charge there has none and is judged by the pressure limits
+    two_phase_at_top = a.max_state.phase == "two-phase"
+    if v.limits.min_vapour_space is None and two_phase_at_top and liquid is not None:
         left = 1.0 - liquid
         if left < VAPOUR_SPACE_WARNING:
             out.append(

@@ -47,10 +47,7 @@ def render_stop_tables(
         )
         if st.max_safe_charge_kg is not None:
             plan = units.format_mass(st.max_safe_charge_kg, system, down=True)
-            console.print(
-                f"Largest safe charge: {plan} "
-                f"({st.governing_limit} governs)."
-            )
+            console.print(f"Largest safe charge: {plan} ({st.governing_limit} governs).")
             if st.target_charge_kg > st.max_safe_charge_kg:
                 console.print(
                     Text(
