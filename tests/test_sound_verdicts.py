@@ -324,3 +324,56 @@ def test_check_and_stop_table_print_the_same_plan() -> None:
     table = stop_table(v, T_ref, np.arange(263.15, 333.16, 10.0))
     assert table.max_safe_charge_kg == a.max_safe_charge_kg
     assert round(a.max_safe_charge_kg * 100) == pytest.approx(a.max_safe_charge_kg * 100, abs=1e-6)
+
+
+def test_a_liquid_full_window_just_below_the_critical_temperature_is_found() -> None:
+    # R22 at 538.5 kg/m³ (Kamei et al. 1995): liquid-full from about 369.29 K, just below its
+    # critical temperature of 369.295 K; CoolProp's saturated-liquid density gives the crossing.
+    from scipy.optimize import brentq
+
+    rho = 538.5
+    Tc = CP.PropsSI("Tcrit", "R22")
+    T_cp = brentq(lambda T: CP.PropsSI("D", "T", T, "Q", 0, "R22") - rho, 360.0, Tc - 1e-4)
+    _, _, a = _assess(
+        "R22",
+        10,
+        {"mass": f"{rho * 0.01} kg"},
+        {"max_temperature": "100 degC", "min_temperature": "0 degC"},
+        {"allowable_pressure": "100 barg"},
+    )
+    assert a.liquid_full_above_K == pytest.approx(T_cp, abs=1e-5)
+    assert "liquid-full" in _codes(a)
+
+
+def _register(gas: str, rows: list[dict]) -> list:
+    raw = {"vessel": rows}
+    sc = scenario_from_dict(raw, "register.toml")
+    from fillcheck.assess import assess_scenario
+
+    return assess_scenario(sc).vessels
+
+
+def test_findings_of_a_vessel_do_not_depend_on_its_neighbours() -> None:
+    # Hydrogen chloride 50 L at 0.6 kg/L to 60 °C: liquid-full from about 321 K, below its
+    # critical temperature (324.7 K, CoolProp), supercritical at the top. Alone and among 60
+    # copies with other charges, the same findings.
+    def row(i: int, ratio: float) -> dict:
+        return {
+            "id": f"HCL-{i}",
+            "gas": "hydrogen chloride",
+            "water_capacity": "50 L",
+            "fill": {"filling_ratio": f"{ratio} kg/L"},
+            "storage": {"max_temperature": "60 degC", "min_temperature": "-10 degC"},
+            "limits": {"allowable_pressure": "150 barg"},
+        }
+
+    alone = _register("hydrogen chloride", [row(0, 0.6)])[0]
+    crowd = _register(
+        "hydrogen chloride", [row(0, 0.6)] + [row(i, 0.2 + 0.007 * i) for i in range(1, 60)]
+    )[0]
+    assert "liquid-full" in {f.code for f in alone.findings}
+    assert [(f.code, f.severity) for f in alone.findings] == [
+        (f.code, f.severity) for f in crowd.findings
+    ]
+    assert alone.liquid_full_above_K == pytest.approx(crowd.liquid_full_above_K, abs=1e-9)
+    assert alone.max_safe_charge_kg == crowd.max_safe_charge_kg
