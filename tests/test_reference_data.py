@@ -6,7 +6,7 @@ These tests check them without the package's own evaluator:
 - shape: required keys, known term types, equal-length coefficient arrays, finite numbers;
 - identity: gas constant, molar mass, reducing, critical and triple-point states, validity range
   and publication key equal to CoolProp's for the same equation; the equation is the one
-  ``/work/shared/REFERENCE-EQUATIONS.md`` names (by CoolProp's BibTeX key);
+  ``EXPECTED_KEY`` below names (by CoolProp's BibTeX key, with the publication beside it);
 - coefficients: a small, slow, literal evaluator written here (alpha^r and alpha^0 only, no
   derivatives) reproduces CoolProp's ``alphar()`` and ``alpha0()`` to 1e-10 at states in the gas,
   liquid and supercritical regions of every gas;
@@ -48,10 +48,10 @@ def _fluid_file(cp_name: str) -> dict:
     return json.loads(CP.get_fluid_param_string(cp_name, "JSON"))[0]
 
 
-#: CoolProp BibTeX key of the equation each gas must use. Those of the gases listed in
-#: /work/shared/REFERENCE-EQUATIONS.md are read off that table (oxygen: CoolProp cites Schmidt &
-#: Wagner (1985) together with Stewart et al. (1991)); the others pin the equation CoolProp 8.0.0
-#: evaluates, so that a change of equation in a CoolProp upgrade is noticed.
+#: CoolProp BibTeX key of the equation each gas must use: the project's choice of reference
+#: equation per gas (oxygen: CoolProp cites Schmidt & Wagner (1985) together with Stewart et al.
+#: (1991)); for the others it pins the equation CoolProp 8.0.0 evaluates, so that a change of
+#: equation in a CoolProp upgrade is noticed.
 EXPECTED_KEY = {
     "nitrogen": "Span-JPCRD-2000",
     "oxygen": "Schmidt-FPE-1985,Stewart-JPCRD-1991",

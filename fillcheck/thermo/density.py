@@ -11,6 +11,7 @@ import numpy as np
 
 from fillcheck.errors import ConvergenceError
 from fillcheck.models.base import FloatArray, HelmholtzModel
+from fillcheck.thermo.properties import dP_drho_from, pressure_from
 from fillcheck.thermo.properties import ln_fugacity_coefficient_at_pressure as _ln_phi
 
 
@@ -44,8 +45,8 @@ def density_TP(model: HelmholtzModel, T: FloatArray, P: FloatArray) -> FloatArra
         # a liquid at low pressure forms P = ρRT(1 + δαʳ_δ) by cancellation, and one unit in
         # the last place of ρ moves P by ρ(∂P/∂ρ)_T·eps: eight such units are the floor
         d = model.alphar(T, np.where(ok, rho, 1.0))
-        back = np.where(ok, rho * model.R * T * (1.0 + d.a01), np.nan)
-        slope = rho * model.R * T * (1.0 + 2.0 * d.a01 + d.a02)
+        back = np.where(ok, pressure_from(d, model.R, T, rho), np.nan)
+        slope = rho * dP_drho_from(d, model.R, T)
         ok &= np.abs(back - P) <= 1e-9 * P + 8.0 * np.finfo(float).eps * np.abs(slope)
     if not np.all(ok):
         i = np.flatnonzero(~ok.ravel())[0]

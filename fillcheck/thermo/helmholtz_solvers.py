@@ -23,7 +23,7 @@ import numpy as np
 
 from fillcheck.errors import ConvergenceError
 from fillcheck.models.base import FloatArray, HelmholtzModel
-from fillcheck.thermo.properties import pressure
+from fillcheck.thermo.properties import dP_drho_from, pressure, pressure_from
 from fillcheck.thermo.saturation import Saturation
 
 _MAX_ITER = 200
@@ -96,7 +96,7 @@ def saturation_newton(
         bad = np.asarray(T)[~ok].ravel()[0]
         raise ConvergenceError(f"{model.info.name}: saturation did not converge at {bad:.6g} K")
     rv = model.alphar(T, dv * rho_r)
-    P = dv * rho_r * model.R * T * (1.0 + rv.a01)
+    P = pressure_from(rv, model.R, T, dv * rho_r)
     return Saturation(T=T, P=P, rho_liquid=dl * rho_r, rho_vapor=dv * rho_r)
 
 
@@ -146,8 +146,8 @@ def density_bracketed(
     done = np.zeros_like(T, dtype=bool)
     for _ in range(_MAX_ITER):
         d = model.alphar(T, x)
-        f = x * R * T * (1.0 + d.a01) - P
-        df = R * T * (1.0 + 2.0 * d.a01 + d.a02)
+        f = pressure_from(d, R, T, x) - P
+        df = dP_drho_from(d, R, T)
         done = done | (np.abs(f) <= 1e-12 * P)
         if np.all(done):
             break

@@ -33,6 +33,7 @@ import numpy as np
 from fillcheck.errors import ConvergenceError
 from fillcheck.models.base import FloatArray
 from fillcheck.models.mixture_base import MixtureModel
+from fillcheck.thermo.properties import dP_drho_from, pressure_from
 
 TRIVIAL_TOL = 1e-8
 """Squared distance Σ(wᵢ − zᵢ)² below which a trial phase is the feed itself."""
@@ -68,7 +69,7 @@ def ln_phi(model: MixtureModel, T: FloatArray, rho: FloatArray, x: FloatArray) -
 
 def pressure(model: MixtureModel, T: FloatArray, rho: FloatArray, x: FloatArray) -> FloatArray:
     """P(T, ρ, x) [Pa]."""
-    return rho * model.R * T * (1.0 + model.alphar(T, rho, x).a01)
+    return pressure_from(model.alphar(T, rho, x), model.R, T, rho)
 
 
 def _gibbs_residual(model: MixtureModel, T, rho, x) -> FloatArray:
@@ -96,8 +97,7 @@ def _newton_density(model: MixtureModel, T, P, x, rho0, liquid: bool) -> FloatAr
 
     def evaluate(idx: np.ndarray, rho: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
         d = model.alphar(T[idx], rho, x[idx])
-        RT = model.R * T[idx]
-        return rho * RT * (1.0 + d.a01) - P[idx], RT * (1.0 + 2.0 * d.a01 + d.a02)
+        return pressure_from(d, model.R, T[idx], rho) - P[idx], dP_drho_from(d, model.R, T[idx])
 
     rho = np.minimum(np.asarray(rho0, dtype=float).ravel() * np.ones(T.size), top)
     out = np.full(T.size, np.nan)
@@ -465,7 +465,7 @@ def _chemical_potentials(model, T, rho, x):
     xn = x / x.sum(axis=1, keepdims=True)
     d = model.alphar(T, rho, xn)
     mu = np.log(x) + np.log(rho)[:, None] + d.a00[:, None] + model.dalphar_dn(T, rho, xn)
-    return mu, rho * model.R * T * (1.0 + d.a01)
+    return mu, pressure_from(d, model.R, T, rho)
 
 
 def _split_newton_TV(model, T, rho, z, start: Split) -> tuple[Split, np.ndarray]:

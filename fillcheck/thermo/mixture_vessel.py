@@ -24,6 +24,7 @@ import numpy as np
 from fillcheck.errors import ConvergenceError, StateError
 from fillcheck.models.base import FloatArray
 from fillcheck.thermo import mixture_equilibrium as eq
+from fillcheck.thermo.properties import dP_dT_from, pressure_from
 from fillcheck.thermo.saturation import Saturation
 from fillcheck.thermo.vessel import VesselPath
 
@@ -60,8 +61,8 @@ def homogeneous(f: MixtureFluid, T: np.ndarray, rho: np.ndarray):
     m = f.mixture
     z = _feed(f, T.size)
     d = m.alphar(T, rho, z)
-    P = rho * m.R * T * (1.0 + d.a01)
-    dPdT = rho * m.R * (1.0 + d.a01 - d.a11)
+    P = pressure_from(d, m.R, T, rho)
+    dPdT = dP_dT_from(d, m.R, rho)
     mech = (1.0 + 2.0 * d.a01 + d.a02 > 0.0) & (P > 0.0)
     return P, dPdT, mech
 

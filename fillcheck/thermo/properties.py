@@ -16,6 +16,8 @@ All functions take arrays (broadcast together) and molar densities [mol/m³].
 
 from __future__ import annotations
 
+from typing import Any
+
 import numpy as np
 
 from fillcheck.models.base import FloatArray, HelmholtzModel, ResidualDerivatives
@@ -27,10 +29,25 @@ def residual(model: HelmholtzModel, T: FloatArray, rho: FloatArray) -> ResidualD
     return model.alphar(np.asarray(T, dtype=float), np.asarray(rho, dtype=float))
 
 
+def pressure_from(d: Any, R: float, T: FloatArray, rho: FloatArray) -> FloatArray:
+    """P = ρRT(1 + a01) [Pa] from derivatives ``d`` already evaluated at T [K], ρ [mol/m³]
+    (pure fluid or mixture: any object with ``a01``); R [J/(mol·K)]. The one pressure formula."""
+    return rho * R * T * (1.0 + d.a01)
+
+
+def dP_dT_from(d: Any, R: float, rho: FloatArray) -> FloatArray:
+    """(∂P/∂T)_ρ = ρR(1 + a01 − a11) [Pa/K] from evaluated derivatives ``d``."""
+    return rho * R * (1.0 + d.a01 - d.a11)
+
+
+def dP_drho_from(d: Any, R: float, T: FloatArray) -> FloatArray:
+    """(∂P/∂ρ)_T = RT(1 + 2a01 + a02) [Pa·m³/mol] from evaluated derivatives ``d``."""
+    return R * T * (1.0 + 2.0 * d.a01 + d.a02)
+
+
 def pressure(model: HelmholtzModel, T: FloatArray, rho: FloatArray) -> FloatArray:
     """Pressure P(T, ρ) [Pa]."""
-    d = residual(model, T, rho)
-    return rho * model.R * T * (1.0 + d.a01)
+    return pressure_from(residual(model, T, rho), model.R, T, rho)
 
 
 def compressibility(model: HelmholtzModel, T: FloatArray, rho: FloatArray) -> FloatArray:
@@ -40,16 +57,14 @@ def compressibility(model: HelmholtzModel, T: FloatArray, rho: FloatArray) -> Fl
 
 def dP_dT_at_constant_density(model: HelmholtzModel, T: FloatArray, rho: FloatArray) -> FloatArray:
     """(∂P/∂T)_ρ, the pressure rise per kelvin of a single-phase closed vessel [Pa/K]."""
-    d = residual(model, T, rho)
-    return rho * model.R * (1.0 + d.a01 - d.a11)
+    return dP_dT_from(residual(model, T, rho), model.R, rho)
 
 
 def dP_drho_at_constant_temperature(
     model: HelmholtzModel, T: FloatArray, rho: FloatArray
 ) -> FloatArray:
     """(∂P/∂ρ)_T [Pa·m³/mol]."""
-    d = residual(model, T, rho)
-    return model.R * np.asarray(T) * (1.0 + 2.0 * d.a01 + d.a02)
+    return dP_drho_from(residual(model, T, rho), model.R, np.asarray(T))
 
 
 def ln_fugacity_coefficient(model: HelmholtzModel, T: FloatArray, rho: FloatArray) -> FloatArray:

@@ -23,7 +23,7 @@ import numpy as np
 from fillcheck.errors import ConvergenceError, StateError
 from fillcheck.models.base import FloatArray
 from fillcheck.thermo.bracketed import illinois
-from fillcheck.thermo.properties import residual_enthalpy_over_RT
+from fillcheck.thermo.properties import dP_dT_from, pressure_from, residual_enthalpy_over_RT
 
 if TYPE_CHECKING:
     from fillcheck.thermo.fluid import Fluid
@@ -101,8 +101,8 @@ def vessel_path(fluid: Fluid, T: FloatArray, rho_mol: FloatArray) -> VesselPath:
     one = ~two
     if np.any(one):
         d = model.alphar(T[one], rho[one])
-        P[one] = rho[one] * model.R * T[one] * (1.0 + d.a01)
-        dPdT[one] = rho[one] * model.R * (1.0 + d.a01 - d.a11)
+        P[one] = pressure_from(d, model.R, T[one], rho[one])
+        dPdT[one] = dP_dT_from(d, model.R, rho[one])
     if not (np.all(np.isfinite(P)) and np.all(np.isfinite(dPdT))):
         raise ConvergenceError(f"{model.info.name}: closed-vessel state not finite")
     phase = np.where(
