@@ -64,11 +64,6 @@ def _grids(vs: Sequence[VesselInput], T_ref: float, small: bool, mixture: bool) 
     return lo[:, None] + (hi - lo)[:, None] * np.linspace(0.0, 1.0, k)[None, :]
 
 
-def _first_crossing(T: np.ndarray, P: np.ndarray, limit: np.ndarray) -> np.ndarray:
-    """Per row, the lowest T where P reaches ``limit`` (linear interpolation); NaN if never."""
-    return _bracket(T, P, limit)[0]
-
-
 def _bracket(
     T: np.ndarray, P: np.ndarray, limit: np.ndarray
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:

@@ -23,9 +23,6 @@ from fillcheck.thermo.liquid_band import (
 )
 from fillcheck.thermo.vessel import vessel_path
 
-READING_T_UNCERTAINTY_K = THERMOMETER_UNCERTAINTY_K
-"""How far the gas temperature of a reading may be off (thermometer, gradients) [K]."""
-
 
 @dataclass(frozen=True)
 class StopRow:

@@ -29,17 +29,13 @@ from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
 from fillcheck.scenario.source import read_input
 from fillcheck.scenario.text import neutralise
 from fillcheck.thermo.fluid import Fluid
-from fillcheck.thermo.limits import FIRE_TEMPERATURE_K, highest_temperature_K
+from fillcheck.thermo.limits import highest_temperature_K
 from fillcheck.thermo.liquid_band import (
     GAUGE_UNCERTAINTY,
     THERMOMETER_UNCERTAINTY_K,
     in_liquid_band,
 )
 from fillcheck.thermo.mixture_fluid import FRACTION_SUM_TOLERANCE, MixtureFluid
-
-T_HARD_MAX_K = FIRE_TEMPERATURE_K
-"""Temperatures above this are computed only up to the model's published range
-(thermo.limits.highest_temperature_K) and carry a fire caution."""
 
 PACKING_LIMIT = 0.98
 """Fraction of the model's covolume limit 1/(b − c) above which a charge is refused: no liquid
@@ -237,7 +233,8 @@ class _Where:
 
 def option_temperature(scenario: Scenario, vessel: VesselInput, option: str, text: str) -> float:
     """A gas temperature given on the command line for ``vessel`` [K], refused where a storage
-    temperature of the vessel would be (below the triple point, above ``T_HARD_MAX_K``)."""
+    temperature of the vessel would be (below the triple point, above the model's published
+    range)."""
     where = _Where(scenario.source).vessel(vessel.id)
     return _temperature(text, option, where, vessel.fluid)
 

@@ -55,11 +55,6 @@ def compressibility(model: HelmholtzModel, T: FloatArray, rho: FloatArray) -> Fl
     return 1.0 + residual(model, T, rho).a01
 
 
-def dP_dT_at_constant_density(model: HelmholtzModel, T: FloatArray, rho: FloatArray) -> FloatArray:
-    """(∂P/∂T)_ρ, the pressure rise per kelvin of a single-phase closed vessel [Pa/K]."""
-    return dP_dT_from(residual(model, T, rho), model.R, rho)
-
-
 def dP_drho_at_constant_temperature(
     model: HelmholtzModel, T: FloatArray, rho: FloatArray
 ) -> FloatArray:
