@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from pathlib import Path
+
 import CoolProp.CoolProp as CP
 import numpy as np
 import pytest
@@ -183,29 +185,30 @@ def test_rule_set_for_the_wrong_kind_of_gas_is_refused() -> None:
         )
 
 
-def test_following_the_printed_fill_plan_passes_for_every_demo_vessel() -> None:
+DEMO_FILES = sorted((Path(__file__).resolve().parents[1] / "scenarios").glob("*.toml"))
+
+
+@pytest.mark.parametrize("path", DEMO_FILES, ids=[p.stem for p in DEMO_FILES])
+def test_following_the_printed_fill_plan_passes_for_every_demo_vessel(path: Path) -> None:
     # A plan followed to its printed (rounded) figures must keep every limit: the largest safe
     # charge keeps the model's uncertainty and a clearance below each pressure limit.
     import dataclasses
     import math
-    from pathlib import Path
 
     from fillcheck.assess import assess_scenario
     from fillcheck.scenario.resolve import load_scenario
 
-    root = Path(__file__).resolve().parents[1] / "scenarios"
-    for path in sorted(root.glob("*.toml")):
-        sc = load_scenario(path)
-        for v, a in zip(sc.vessels, assess_scenario(sc).vessels, strict=True):
-            if a.max_safe_charge_kg is None:
-                continue
-            printed = math.floor(a.max_safe_charge_kg * 100.0) / 100.0  # shown to 10 g
-            planned = dataclasses.replace(v, fill_kind="mass", fill_value=printed)
-            b = assess_vessel(planned, sc.reference_temperature_K)
-            fails = [f.code for f in b.findings if f.severity == "fail"]
-            reviews = [
-                f.code
-                for f in b.findings
-                if f.severity == "review" and f.code == "margin-below-model-error"
-            ]
-            assert not fails and not reviews, (path.name, v.id, fails, reviews)
+    sc = load_scenario(path)
+    for v, a in zip(sc.vessels, assess_scenario(sc).vessels, strict=True):
+        if a.max_safe_charge_kg is None:
+            continue
+        printed = math.floor(a.max_safe_charge_kg * 100.0) / 100.0  # shown to 10 g
+        planned = dataclasses.replace(v, fill_kind="mass", fill_value=printed)
+        b = assess_vessel(planned, sc.reference_temperature_K)
+        fails = [f.code for f in b.findings if f.severity == "fail"]
+        reviews = [
+            f.code
+            for f in b.findings
+            if f.severity == "review" and f.code == "margin-below-model-error"
+        ]
+        assert not fails and not reviews, (path.name, v.id, fails, reviews)

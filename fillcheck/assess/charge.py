@@ -37,7 +37,7 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -192,7 +192,7 @@ def pressure_bound(
         # the branch that applies: the vapour pressure itself keeps the margin (then the limit
         # binds only past liquid-full, which the vapour-space rule forbids), or it does not
         # (then the bound lies on the vapour branch, below the saturated vapour density)
-        sat = fluid.saturation_molar(T[below])
+        sat = _saturation(fluid, T[below])
         mid = 0.5 * (sat.rho_vapor + sat.rho_liquid)
         keeps = _margin_excess(fluid, T[below], mid, P_limit[below], clearance) <= 0.0
         b = np.flatnonzero(below)
@@ -205,6 +205,20 @@ def pressure_bound(
         dew_ok = at_dew <= 0.0
         out[b[~keeps][dew_ok]] = sat.rho_vapor[~keeps][dew_ok] * (1 - 1e-12)
         todo[b[~keeps][dew_ok]] = False
+    if mixture:
+        # a mixture's pressure rises across its two-phase band, to the bubble pressure at the
+        # liquid end: where that keeps the margin, so does every two-phase charge, and the limit
+        # binds only past liquid-full (the vapour-space rule); otherwise the bound lies below
+        # the liquid end
+        sat = _saturation(fluid, T)
+        band = np.isfinite(sat.rho_liquid) & np.isfinite(sat.rho_vapor)
+        if np.any(band):
+            b = np.flatnonzero(band)
+            end = sat.rho_liquid[band] * (1.0 - 1e-9)
+            keeps = _margin_excess(fluid, T[b], end, P_limit[b], clearance) <= 0.0
+            out[b[keeps]] = np.inf
+            todo[b[keeps]] = False
+            hi[b[~keeps]] = np.minimum(hi[b[~keeps]], sat.rho_liquid[band][~keeps])
     idx = np.flatnonzero(todo)
     if idx.size:
         # a start close below the root: the density at the limit less the uncertainty there
@@ -266,11 +280,29 @@ def vapour_space_bound(
     out = np.full(T.shape, np.inf if uncertain else rhoc * (1.0 - 1e-9))
     below = T < Tc
     if np.any(below):
-        sat = fluid.saturation_molar(T[below])
+        sat = _saturation(fluid, T[below])
         rl = sat.rho_liquid * (1.0 - (_liquid_u(fluid) if uncertain else 0.0))
         r = sat.rho_vapor + (1.0 - fraction[below]) * (rl - sat.rho_vapor)
         out[below] = np.where(np.isnan(r), out[below], r)  # NaN: a mixture with no band at T
     return out
+
+
+_SATURATION_CACHE: dict[tuple[int, bytes], Any] = {}
+
+
+def _saturation(fluid: Fluid, T: np.ndarray) -> Any:
+    """fluid.saturation_molar(T), remembered for the last few calls: every bound of a plan asks
+    for the saturation at the same top temperatures, and a mixture's costs a flash per point."""
+    key = (id(fluid), np.ascontiguousarray(T, dtype=float).tobytes())
+    if key not in _SATURATION_CACHE:
+        if len(_SATURATION_CACHE) >= 8:
+            _SATURATION_CACHE.pop(next(iter(_SATURATION_CACHE)))
+        _SATURATION_CACHE[key] = (fluid, fluid.saturation_molar(T))
+    held, sat = _SATURATION_CACHE[key]
+    if held is not fluid:  # an id reused by a new object: compute afresh
+        sat = fluid.saturation_molar(T)
+        _SATURATION_CACHE[key] = (fluid, sat)
+    return sat
 
 
 def _liquid_u(fluid: Fluid) -> float:
