@@ -14,6 +14,15 @@ from fillcheck.fluids.catalog import available_fluids
 from fillcheck.thermo.fluid import Fluid, State, fluid
 from fillcheck.thermo.mixture_fluid import MixtureFluid, MixtureState, mixture
 
+
+def check_records(records, **options):  # type: ignore[no-untyped-def]
+    """Check vessels given as mappings of register columns (see :mod:`fillcheck.records`);
+    yields one result mapping a vessel, with the keys of the JSON vessel object."""
+    from fillcheck.records import check_records as run
+
+    return run(records, **options)
+
+
 __all__ = [
     "Fluid",
     "MixtureFluid",
@@ -21,6 +30,7 @@ __all__ = [
     "State",
     "__version__",
     "available_fluids",
+    "check_records",
     "fluid",
     "mixture",
 ]

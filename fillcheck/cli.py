@@ -84,6 +84,14 @@ def check(
             "--width", min=40, help="Report width in characters (default: the terminal's)."
         ),
     ] = None,
+    jsonl_out: Annotated[
+        str | None,
+        typer.Option(
+            "--jsonl",
+            help="Write one JSON object a vessel, a line each, as it computes ('-': stdout); "
+            "no report, memory bounded for any register.",
+        ),
+    ] = None,
 ) -> None:
     """Check every vessel of a scenario and print the report.
 
@@ -97,6 +105,10 @@ def check(
     """
     from fillcheck.assess import assess_scenario
 
+    if jsonl_out is not None:
+        if json_out or html_out is not None:
+            _refuse("give --jsonl alone: it replaces the report, --json and --html")
+        _check_jsonl(file, jsonl_out, force, units.value)
     if html_out is not None:
         from fillcheck.report.html_report import destination_problem
 
@@ -134,6 +146,67 @@ def check(
 
         render_terminal(result, _console(width), units.value)
     raise typer.Exit(EXIT_PASS if result.verdict == "pass" else EXIT_FINDINGS)
+
+
+def _check_jsonl(file: Path, out: str, force: bool, system: str) -> None:
+    """``check --jsonl``: stream one JSON line a vessel to ``out`` ('-' for stdout), written to
+    a temporary file and renamed when complete (a refused or failed run leaves nothing)."""
+    import json
+    import tempfile
+
+    from fillcheck.records import stream_register
+
+    to_stdout = out == "-"
+    if not to_stdout:
+        from fillcheck.report.html_report import destination_problem
+
+        problem = destination_problem(Path(out), force, source=file, kind_of_file=".jsonl file")
+        if problem is not None:
+            _refuse(problem)
+    counts = {"pass": 0, "fail": 0, "review": 0}
+    tmp: str | None = None
+    try:
+        if to_stdout:
+            sink = sys.stdout
+        else:
+            folder = Path(out).parent if str(Path(out).parent) else Path(".")
+            fd, tmp = tempfile.mkstemp(prefix=".fillcheck-", suffix=".jsonl", dir=folder)
+            sink = os.fdopen(fd, "w", encoding="utf-8")
+        with _guarded("the check", file):
+            if file.suffix.lower() == ".csv":
+                from fillcheck.scenario.register import read_rows
+
+                results = stream_register(read_rows(file), file.name, system)  # type: ignore[arg-type]
+            else:
+                from fillcheck.assess.batch import assess_many
+                from fillcheck.report.json_report import vessel_dict
+                from fillcheck.scenario.resolve import load_scenario
+
+                sc = load_scenario(file)
+                results = (
+                    vessel_dict(a)
+                    for a in assess_many(sc.vessels, sc.reference_temperature_K, system)  # type: ignore[arg-type]
+                )
+            for result in results:
+                sink.write(json.dumps(result, ensure_ascii=False) + "\n")
+                counts[result["verdict"]] += 1
+        if not to_stdout:
+            sink.close()
+            umask = os.umask(0)
+            os.umask(umask)
+            os.chmod(tmp, 0o666 & ~umask)  # type: ignore[arg-type]
+            os.replace(tmp, out)  # type: ignore[arg-type]
+            tmp = None
+    finally:
+        if tmp is not None:
+            Path(tmp).unlink(missing_ok=True)
+    total = sum(counts.values())
+    typer.echo(
+        f"fillcheck: {total} vessels: {counts['pass']} pass, {counts['fail']} fail, "
+        f"{counts['review']} review" + ("" if to_stdout else f"; wrote {neutralise(out)}"),
+        err=True,
+    )
+    raise typer.Exit(EXIT_PASS if total == counts["pass"] else EXIT_FINDINGS)
 
 
 def _console(width: int | None) -> object:

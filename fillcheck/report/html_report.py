@@ -147,7 +147,9 @@ def render_html(
     )
 
 
-def destination_problem(path: Path, force: bool, source: Path | None = None) -> str | None:
+def destination_problem(
+    path: Path, force: bool, source: Path | None = None, kind_of_file: str = ".html file"
+) -> str | None:
     """Why the report may not be written to ``path`` (one sentence), or None if it may.
 
     Only a new file, or with ``force`` an existing regular file, is written: never a device
@@ -170,7 +172,7 @@ def destination_problem(path: Path, force: bool, source: Path | None = None) -> 
         else:
             kind = None
         if kind is not None:
-            return f"{path}: is {kind}, not a regular file; give the path of a new .html file"
+            return f"{path}: is {kind}, not a regular file; give the path of a new {kind_of_file}"
         if source is not None and _same_file(path, Path(source)):
             return f"{path}: is the input file itself; give the report another name"
         if not force:

@@ -47,6 +47,13 @@ def load_register(path: str | Path, title: str | None = None) -> Scenario:
     return register_from_text(text, p.name, title)
 
 
+def read_rows(path: str | Path) -> list[list[str]]:
+    """The rows of a CSV register (header first), cells stripped and neutralised, not yet
+    validated: for streaming the register a chunk at a time (fillcheck.records)."""
+    text = read_input(path, "register (.csv)", "save the register as UTF-8 CSV")
+    return _rows(text.lstrip("\ufeff"), Path(path).name)
+
+
 def _rows(text: str, name: str) -> list[list[str]]:
     """The CSV records of ``text``, every cell stripped and neutralised; a cell longer than
     TEXT_CHARS_MAX, or text that is not CSV, is refused naming the row (and the column)."""
@@ -95,6 +102,25 @@ def register_from_text(text: str, name: str, title: str | None = None) -> Scenar
     if not rows:
         raise InputError(f"{name}: is empty; the first row must name the columns")
     header, records = rows[0], rows[1:]
+    check_columns(header, name)
+    vessels = []
+    for n, row in enumerate(records, start=2):
+        if not any(row):
+            raise InputError(f"{name}: row {n} is empty; remove it")
+        if len(row) != len(header):
+            raise InputError(
+                f"{name}: row {n} has {len(row)} cells but the header has {len(header)} columns"
+            )
+        vessels.append(row_vessel(header, row, name, n))
+    if not vessels:
+        raise InputError(f"{name}: has a header but no vessels; add one vessel a row")
+    return scenario_from_dict(
+        {"title": title, "vessel": vessels} if title else {"vessel": vessels}, name, FIELDS
+    )
+
+
+def check_columns(header: list[str], name: str) -> None:
+    """Refuse an unknown, repeated or missing required column, in one sentence."""
     for col in header:
         if col not in COLUMNS:
             raise InputError(
@@ -107,33 +133,25 @@ def register_from_text(text: str, name: str, title: str | None = None) -> Scenar
     for col in REQUIRED:
         if col not in header:
             raise InputError(f"{name}: the required column '{col}' is missing")
-    vessels = []
-    for n, row in enumerate(records, start=2):
-        if not any(row):
-            raise InputError(f"{name}: row {n} is empty; remove it")
-        if len(row) != len(header):
-            raise InputError(
-                f"{name}: row {n} has {len(row)} cells but the header has {len(header)} columns"
-            )
-        vessel: dict[str, object] = {}
-        for col, cell in zip(header, row, strict=True):
-            if not cell:
-                continue
-            path = COLUMNS[col].split(".")
-            target = vessel
-            for key in path[:-1]:
-                target = target.setdefault(key, {})  # type: ignore[assignment]
-            target[path[-1]] = cell  # type: ignore[index]
-        if isinstance(vessel.get("gas"), str) and "+" in str(vessel["gas"]):
-            vessel["gas"] = _mixture_cell(str(vessel["gas"]), name, n)
-        for table in ("fill", "storage", "limits"):
-            vessel.setdefault(table, {})
-        vessels.append(vessel)
-    if not vessels:
-        raise InputError(f"{name}: has a header but no vessels; add one vessel a row")
-    return scenario_from_dict(
-        {"title": title, "vessel": vessels} if title else {"vessel": vessels}, name, FIELDS
-    )
+
+
+def row_vessel(header: list[str], row: list[str], name: str, n: int) -> dict[str, object]:
+    """One register row (cells already stripped) as a ``[[vessel]]`` table; empty cells are
+    absent values."""
+    vessel: dict[str, object] = {}
+    for col, cell in zip(header, row, strict=True):
+        if not cell:
+            continue
+        path = COLUMNS[col].split(".")
+        target = vessel
+        for key in path[:-1]:
+            target = target.setdefault(key, {})  # type: ignore[assignment]
+        target[path[-1]] = cell  # type: ignore[index]
+    if isinstance(vessel.get("gas"), str) and "+" in str(vessel["gas"]):
+        vessel["gas"] = _mixture_cell(str(vessel["gas"]), name, n)
+    for table in ("fill", "storage", "limits"):
+        vessel.setdefault(table, {})
+    return vessel
 
 
 _PART = re.compile(r"^(?P<gas>.+?)\s+(?P<fraction>[0-9.eE+-]+\s*%?)$")

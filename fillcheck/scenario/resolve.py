@@ -125,20 +125,23 @@ def load_scenario(path: str | Path) -> Scenario:
 
 
 def scenario_from_dict(
-    raw: dict[str, Any], name: str = "<scenario>", columns: dict[str, str] | None = None
+    raw: dict[str, Any],
+    name: str = "<scenario>",
+    columns: dict[str, str] | None = None,
+    first_row: int = 2,
 ) -> Scenario:
     """Validate a scenario given as a dictionary (as parsed from TOML).
 
-    With ``columns`` (field path -> register column), vessel i is row i + 2 of a register and
-    messages name the row and the column.
+    With ``columns`` (field path -> register column), vessel i is row i + ``first_row`` of a
+    register (2: the row after the header) and messages name the row and the column.
     """
     name = neutralise(name)
     if isinstance(raw, dict):
-        raw = _clean(raw, raw, name, columns)
+        raw = _clean(raw, raw, name, columns, first_row=first_row)
     try:
         spec = ScenarioSpec.model_validate(raw)
     except ValidationError as exc:
-        raise InputError(_pydantic_sentence(exc, raw, name, columns)) from None
+        raise InputError(_pydantic_sentence(exc, raw, name, columns, first_row)) from None
     where = _Where(name, columns=columns)
     T_ref = where.run("reference_temperature", units.parse_temperature, spec.reference_temperature)
     if not bounds.REFERENCE_TEMPERATURE_MIN_K <= T_ref <= bounds.REFERENCE_TEMPERATURE_MAX_K:
@@ -168,10 +171,10 @@ def scenario_from_dict(
     for i, v in enumerate(spec.vessel):
         vid = str(v.id)
         if not vid.strip():
-            raise where.vessel(vid, i + 2 if columns is not None else None).fail(
+            raise where.vessel(vid, i + first_row if columns is not None else None).fail(
                 "id", 'is empty; give every vessel an id, e.g. id = "AR-50-001"'
             )
-        w = where.vessel(vid, i + 2 if columns is not None else None)
+        w = where.vessel(vid, i + first_row if columns is not None else None)
         if vid in seen:
             raise w.fail("id", "the id is used twice; give every vessel its own id")
         seen.add(vid)
@@ -704,13 +707,17 @@ def _limits(
 
 
 def _pydantic_sentence(
-    exc: ValidationError, raw: dict[str, Any], file: str, columns: dict[str, str] | None = None
+    exc: ValidationError,
+    raw: dict[str, Any],
+    file: str,
+    columns: dict[str, str] | None = None,
+    first_row: int = 2,
 ) -> str:
     """The first pydantic error as one sentence naming file, vessel and field."""
     errors = exc.errors()
     # an unknown key explains a "missing" one next to it (a typo), so it is reported first
     err = next((e for e in errors if e["type"] == "extra_forbidden"), errors[0])
-    vessel, loc = _vessel_of(list(err["loc"]), raw, columns)
+    vessel, loc = _vessel_of(list(err["loc"]), raw, columns, first_row)
     loc = [
         p
         for p in loc
@@ -768,7 +775,9 @@ def _pydantic_sentence(
     return f"{file}: {vessel}field '{field}': {what}"
 
 
-def _vessel_of(loc: list[Any], raw: Any, columns: dict[str, str] | None) -> tuple[str, list[Any]]:
+def _vessel_of(
+    loc: list[Any], raw: Any, columns: dict[str, str] | None, first_row: int = 2
+) -> tuple[str, list[Any]]:
     """The vessel (or register row) a location lies in, as message text, and the rest of it."""
     if not (len(loc) >= 2 and loc[0] == "vessel" and isinstance(loc[1], int)):
         return "", loc
@@ -782,7 +791,7 @@ def _vessel_of(loc: list[Any], raw: Any, columns: dict[str, str] | None) -> tupl
         vid = None
     vessel = f"vessel '{vid}', " if vid is not None else f"vessel number {idx + 1}, "
     if columns is not None:
-        vessel = f"row {idx + 2} (vessel '{vid}'), "
+        vessel = f"row {idx + first_row} (vessel '{vid}'), "
     return vessel, loc[2:]
 
 
@@ -794,13 +803,18 @@ def _field_text(loc: list[Any]) -> str:
 
 
 def _clean(
-    value: Any, raw: dict[str, Any], file: str, columns: dict[str, str] | None, loc: tuple = ()
+    value: Any,
+    raw: dict[str, Any],
+    file: str,
+    columns: dict[str, str] | None,
+    loc: tuple = (),
+    first_row: int = 2,
 ) -> Any:
     """``value`` with every text neutralised (keys too), or an InputError where the input nests
     too deep, holds a text too long or a number that is not finite."""
 
     def fail(what: str) -> InputError:
-        vessel, rest = _vessel_of(list(loc), raw, columns)
+        vessel, rest = _vessel_of(list(loc), raw, columns, first_row)
         field = _field_text(rest)
         if columns is not None:
             return InputError(f"{file}: {vessel}column '{columns.get(field, field)}': {what}")
@@ -823,11 +837,11 @@ def _clean(
     if isinstance(value, dict):
         out: dict[Any, Any] = {}
         for k, v in value.items():
-            key = _clean(k, raw, file, columns, (*loc, k)) if isinstance(k, str) else k
-            out[key] = _clean(v, raw, file, columns, (*loc, key))
+            key = _clean(k, raw, file, columns, (*loc, k), first_row) if isinstance(k, str) else k
+            out[key] = _clean(v, raw, file, columns, (*loc, key), first_row)
         return out
     if isinstance(value, list):
-        return [_clean(v, raw, file, columns, (*loc, i)) for i, v in enumerate(value)]
+        return [_clean(v, raw, file, columns, (*loc, i), first_row) for i, v in enumerate(value)]
     return value
 
 

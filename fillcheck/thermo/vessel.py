@@ -134,6 +134,12 @@ def saturation_crossing(fluid: Fluid, rho_mol: float) -> tuple[SaturationCrossin
     return ("liquid-full" if full[0] else "dew"), (None if np.isnan(T[0]) else float(T[0]))
 
 
+CRITICAL_GAP_K = 2e-5
+"""How close below the critical temperature saturation is solved for a crossing [K]: every
+reference equation converges at Tc − 10 µK, several not at Tc − 1 µK (round-off in the
+phase-equilibrium conditions). A crossing inside the gap is reported at its safe end."""
+
+
 def saturation_crossings(fluid: Fluid, rho_mol: FloatArray) -> tuple[np.ndarray, np.ndarray]:
     """Where the isochores of overall densities ρ [mol/m³] meet the saturation curve (pure fluid).
 
@@ -173,12 +179,23 @@ def saturation_crossings(fluid: Fluid, rho_mol: FloatArray) -> tuple[np.ndarray,
     critical = np.abs(rho / rhoc - 1.0) < 1e-9  # the critical isochore meets the curve at Tc
     T_out[critical & ~gas_at_triple & ~full_at_triple] = Tc
     active = ~(gas_at_triple | full_at_triple | critical)
+    # the search stops CRITICAL_GAP_K below Tc, closer than which a saturation solve is not
+    # resolved in double precision; a crossing inside the gap is put at its safe end (below)
+    s_min = np.sqrt(CRITICAL_GAP_K)
+    f_min = np.full(n, np.nan)
+    if np.any(active):
+        f_min[active] = f(np.full(int(active.sum()), s_min), np.flatnonzero(active))
+    inside_gap = active & ((f_min > 0.0) == (f_hi > 0.0))
+    # liquid-full: from the gap's lower end (earlier is the safe side); dew: at Tc
+    T_out[inside_gap & full] = Tc - CRITICAL_GAP_K
+    T_out[inside_gap & ~full] = Tc
+    active &= ~inside_gap
     idx = np.flatnonzero(active)
     found = illinois(
         lambda j, s: f(s, idx[j]),
-        np.zeros(idx.size),
+        np.full(idx.size, s_min),
         s_hi[idx],
-        np.log(rhoc / rho[idx]),
+        f_min[idx],
         f_hi[idx],
         width=1e-9,  # ΔT = 2 s Δs: a bracket of 1e-9 √K in s is far below a microkelvin
         ftol=1e-13,

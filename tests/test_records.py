@@ -1,0 +1,139 @@
+"""Streams of vessels: ``fillcheck.check_records`` and ``check --jsonl``; crossings next to the
+critical point at register scale.
+
+Reference values: CoolProp 8.0.0's evaluation of the same published equations (Span et al.
+2000 for nitrogen, Tegeler et al. 1999 for argon).
+"""
+
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+from pathlib import Path
+
+import CoolProp.CoolProp as CP
+import numpy as np
+import pytest
+
+import fillcheck
+from fillcheck.errors import InputError
+from fillcheck.thermo.vessel import CRITICAL_GAP_K, saturation_crossings
+
+ATM = 101_325.0
+
+
+def _row(i: int, barg: float) -> dict[str, object]:
+    return {
+        "id": f"N2-{i:05d}",
+        "gas": "nitrogen",
+        "water_capacity": "50 L",
+        "fill_pressure": f"{barg} barg",
+        "fill_temperature": "15 degC",
+        "max_temperature": "65 degC",
+        "allowable_pressure": "300 barg",
+        "relief_set_pressure": float("nan"),  # a DataFrame's empty cell
+    }
+
+
+def test_check_records_gives_the_json_vessel_of_each_record() -> None:
+    rows = [_row(i, 150 + i) for i in range(30)]
+    out = list(fillcheck.check_records(rows, chunk_rows=7))
+    assert [r["id"] for r in out] == [r["id"] for r in rows]
+    for r, row in zip(out, rows, strict=True):
+        P = float(str(row["fill_pressure"]).split()[0]) * 1e5 + ATM
+        rho = CP.PropsSI("D", "T", 288.15, "P", P, "Nitrogen")
+        assert r["charged_mass_kg"] == pytest.approx(rho * 0.05, rel=1e-9)
+        P_top = CP.PropsSI("P", "T", 338.15, "D", rho, "Nitrogen")
+        assert r["max_temperature"]["pressure_Pa"] == pytest.approx(P_top, rel=1e-9)
+        assert r["verdict"] == ("pass" if P_top < 0.99 * (300e5 + ATM) else r["verdict"])
+    # the same results checked in one chunk or one at a time (to round-off: numpy may sum
+    # arrays of different lengths in a different order)
+    alone = list(fillcheck.check_records(rows[12:13]))
+    assert len(alone) == 1
+    _same(alone[0], out[12])
+
+
+def _same(a: object, b: object) -> None:
+    if isinstance(a, dict):
+        assert isinstance(b, dict) and a.keys() == b.keys()
+        for k in a:
+            _same(a[k], b[k])
+    elif isinstance(a, list):
+        assert isinstance(b, list) and len(a) == len(b)
+        for x, y in zip(a, b, strict=True):
+            _same(x, y)
+    elif isinstance(a, float) and isinstance(b, float):
+        assert a == pytest.approx(b, rel=1e-12, abs=1e-12)
+    else:
+        assert a == b
+
+
+@pytest.mark.parametrize(
+    ("records", "says"),
+    [
+        (
+            [{**_row(0, 200), "water_capacity": "50"}],
+            "row 1 (vessel 'N2-00000'), column 'water_capacity'",
+        ),
+        ([_row(0, 200), _row(1, 200), _row(0, 210)], "row 3 (vessel 'N2-00000'), column 'id'"),
+        ([{**_row(0, 200), "gass": "argon"}], "row 1: column 'gass'"),
+    ],
+    ids=["no-unit", "id-twice-across-chunks", "unknown-column"],
+)
+def test_check_records_refuses_in_one_sentence(records, says) -> None:
+    with pytest.raises(InputError, match=r"^records: ") as exc:
+        list(fillcheck.check_records(records, chunk_rows=2))
+    assert says in str(exc.value)
+    assert "\n" not in str(exc.value)
+
+
+def test_crossings_next_to_the_critical_point_complete_and_match_coolprop() -> None:
+    # 2001 nitrogen isochores across ρc ± 1 %: each crossing of the saturation curve (dew below
+    # ρc, liquid-full above), vectorised in one call, against CoolProp's saturated densities.
+    f = fillcheck.fluid("nitrogen")
+    Tc, _, rhoc = f.model_critical
+    rho = rhoc * (1.0 + np.linspace(-0.01, 0.01, 2001))
+    full, T = saturation_crossings(f, rho)
+    assert np.all(np.isfinite(T)) and np.all(T <= Tc)
+    M = f.molar_mass
+    resolved = T < Tc - CRITICAL_GAP_K
+    for i in np.flatnonzero(resolved)[::50]:
+        q = 0 if full[i] else 1
+        ref = CP.PropsSI("D", "T", T[i], "Q", q, "Nitrogen") / M
+        assert ref == pytest.approx(rho[i], rel=1e-6)
+    # inside the gap the crossing is within CRITICAL_GAP_K of Tc, on its safe side
+    assert np.all(Tc - T[~resolved] <= CRITICAL_GAP_K * (1 + 1e-9))
+
+
+def _cli(*args: str, cwd: Path) -> subprocess.CompletedProcess[str]:
+    code = "import sys; from fillcheck.cli import app; sys.argv[0] = 'fillcheck'; app()"
+    return subprocess.run(
+        [sys.executable, "-c", code, *args], capture_output=True, text=True, cwd=cwd, check=False
+    )
+
+
+def test_check_jsonl_streams_one_line_a_vessel(tmp_path: Path) -> None:
+    reg = tmp_path / "fleet.csv"
+    head = "id,gas,water_capacity,fill_pressure,fill_temperature,max_temperature,allowable_pressure"
+    lines = [head] + [
+        f"N2-{i},nitrogen,50 L,{150 + i % 200} barg,15 degC,65 degC,300 barg" for i in range(300)
+    ]
+    reg.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    out = tmp_path / "fleet.jsonl"
+    r = _cli("check", str(reg), "--jsonl", str(out), cwd=tmp_path)
+    assert r.returncode == 1, r.stderr  # the fuller ones exceed 300 barg at 65 °C
+    got = [json.loads(x) for x in out.read_text(encoding="utf-8").splitlines()]
+    assert [g["id"] for g in got] == [f"N2-{i}" for i in range(300)]
+    assert "300 vessels" in r.stderr
+    # the same vessel as the JSON of the whole register
+    whole = json.loads(_cli("check", str(reg), "--json", cwd=tmp_path).stdout)["vessels"]
+    _same(whole[17], got[17])
+    # an existing file is not replaced without --force; nothing half-written is left
+    again = _cli("check", str(reg), "--jsonl", str(out), cwd=tmp_path)
+    assert again.returncode == 2 and "--force" in again.stderr
+    assert not list(tmp_path.glob(".fillcheck-*"))
+    bad = tmp_path / "bad.csv"
+    bad.write_text("id,gas\nA,argon\n", encoding="utf-8")
+    r = _cli("check", str(bad), "--jsonl", "-", cwd=tmp_path)
+    assert r.returncode == 2 and r.stdout == "" and "water_capacity" in r.stderr
