@@ -10,9 +10,21 @@ from __future__ import annotations
 
 __version__ = "0.1.0"
 
+from typing import Any
+
 from fillcheck.fluids.catalog import available_fluids
 from fillcheck.thermo.fluid import Fluid, State, fluid
-from fillcheck.thermo.mixture_fluid import MixtureFluid, MixtureState, mixture
+
+_MIXTURE_NAMES = ("MixtureFluid", "MixtureState", "mixture")
+
+
+def __getattr__(name: str) -> Any:
+    """The mixture engine is imported on first use (a pure-gas check never loads it)."""
+    if name in _MIXTURE_NAMES:
+        from fillcheck.thermo import mixture_fluid
+
+        return getattr(mixture_fluid, name)
+    raise AttributeError(f"module 'fillcheck' has no attribute {name!r}")
 
 
 def check_records(records, **options):  # type: ignore[no-untyped-def]

@@ -36,8 +36,23 @@ class Units(StrEnum):
     us = "us"
 
 
+def _version(value: bool) -> None:
+    if value:
+        from fillcheck import __version__
+
+        typer.echo(f"fillcheck {__version__}")
+        raise typer.Exit(EXIT_PASS)
+
+
 @app.callback()
-def _root() -> None:
+def _root(
+    version: Annotated[
+        bool,
+        typer.Option(
+            "--version", callback=_version, is_eager=True, help="Print the version and exit."
+        ),
+    ] = False,
+) -> None:
     """Real-gas checks of cylinder and pressure-vessel fills against their limits.
 
     \b
