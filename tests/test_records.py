@@ -137,3 +137,20 @@ def test_check_jsonl_streams_one_line_a_vessel(tmp_path: Path) -> None:
     bad.write_text("id,gas\nA,argon\n", encoding="utf-8")
     r = _cli("check", str(bad), "--jsonl", "-", cwd=tmp_path)
     assert r.returncode == 2 and r.stdout == "" and "water_capacity" in r.stderr
+
+
+def test_a_model_whose_saturation_stops_short_of_tc_still_gives_crossings() -> None:
+    # R22 (Kamei et al. 1995): saturation is resolved to 1 mK below Tc, not to 20 µK (round-off
+    # in the equilibrium conditions). Isochores across ρc ± 0.5 % still cross, and a resolved
+    # crossing matches CoolProp's saturated density there.
+    f = fillcheck.fluid("R22")
+    Tc, _, rhoc = f.model_critical
+    gap = f.saturation_gap_K
+    assert CRITICAL_GAP_K <= gap <= 1e-2
+    rho = rhoc * (1.0 + np.linspace(-0.005, 0.005, 101))
+    full, T = saturation_crossings(f, rho)
+    assert np.all(np.isfinite(T)) and np.all(Tc - T >= 0.0)
+    resolved = T < Tc - gap
+    for i in np.flatnonzero(resolved)[::10]:
+        ref = CP.PropsSI("D", "T", T[i], "Q", 0 if full[i] else 1, "R22") / f.molar_mass
+        assert ref == pytest.approx(rho[i], rel=1e-6)

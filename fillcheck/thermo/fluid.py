@@ -14,7 +14,7 @@ from typing import Any
 
 import numpy as np
 
-from fillcheck.errors import InputError, StateError
+from fillcheck.errors import FillcheckError, InputError, StateError
 from fillcheck.fluids.accuracy import REFERENCE_UNCERTAINTY, GasAccuracy, ModelError, accuracy_for
 from fillcheck.fluids.catalog import FluidData, lookup
 from fillcheck.models.base import FloatArray
@@ -34,6 +34,9 @@ from fillcheck.thermo.helmholtz_solvers import (
 )
 from fillcheck.thermo.saturation import Saturation, saturation_T
 from fillcheck.thermo.vessel import vessel_path
+
+SATURATION_GAPS_K = (2e-5, 1e-4, 1e-3, 1e-2)
+"""Trial distances below Tc for Fluid.saturation_gap_K, smallest first [K]."""
 
 NEAR_CRITICAL_SPAN_K = 1.0
 """Below Tc by less than this, reference saturation starts from critical scaling [K]."""
@@ -253,6 +256,28 @@ class Fluid:
             s = self._near_critical_saturation(T[near])
             out_l[near], out_v[near], out_p[near] = s.rho_liquid, s.rho_vapor, s.P
         return Saturation(T=T, P=out_p, rho_liquid=out_l, rho_vapor=out_v)
+
+    @property
+    def saturation_gap_K(self) -> float:
+        """How close below the critical temperature saturation converges for this model [K]:
+        the first of SATURATION_GAPS_K at which it does (found once, then remembered). Closer
+        than this the phase-equilibrium conditions are not resolved in double precision (most
+        reference equations converge at Tc − 10 µK; that of R22 only at Tc − 1 mK)."""
+        gap = getattr(self, "_saturation_gap", None)
+        if gap is None:
+            Tc = self.model_critical[0]
+            gap = SATURATION_GAPS_K[-1]
+            for trial in SATURATION_GAPS_K:
+                try:
+                    with np.errstate(all="ignore"):  # a trial that fails may overflow on the way
+                        sat = self.saturation_molar(np.array([Tc - trial]))
+                except FillcheckError:
+                    continue
+                if np.isfinite(sat.P[0]) and sat.rho_liquid[0] > sat.rho_vapor[0]:
+                    gap = trial
+                    break
+            self._saturation_gap = gap
+        return gap
 
     def _near_critical_saturation(self, T: np.ndarray) -> Saturation:
         """Saturation close to Tc by continuation: from NEAR_CRITICAL_SPAN_K below Tc, steps

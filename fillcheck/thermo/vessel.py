@@ -135,9 +135,9 @@ def saturation_crossing(fluid: Fluid, rho_mol: float) -> tuple[SaturationCrossin
 
 
 CRITICAL_GAP_K = 2e-5
-"""How close below the critical temperature saturation is solved for a crossing [K]: every
-reference equation converges at Tc − 10 µK, several not at Tc − 1 µK (round-off in the
-phase-equilibrium conditions). A crossing inside the gap is reported at its safe end."""
+"""The least distance below the critical temperature at which saturation is solved for a
+crossing [K]; a model whose saturation is not resolved that close (Fluid.saturation_gap_K)
+uses its own, larger gap. A crossing inside the gap is reported at its safe end."""
 
 
 def saturation_crossings(fluid: Fluid, rho_mol: FloatArray) -> tuple[np.ndarray, np.ndarray]:
@@ -181,13 +181,14 @@ def saturation_crossings(fluid: Fluid, rho_mol: FloatArray) -> tuple[np.ndarray,
     active = ~(gas_at_triple | full_at_triple | critical)
     # the search stops CRITICAL_GAP_K below Tc, closer than which a saturation solve is not
     # resolved in double precision; a crossing inside the gap is put at its safe end (below)
-    s_min = np.sqrt(CRITICAL_GAP_K)
+    gap = max(CRITICAL_GAP_K, float(getattr(fluid, "saturation_gap_K", CRITICAL_GAP_K)))
+    s_min = np.sqrt(gap)
     f_min = np.full(n, np.nan)
     if np.any(active):
         f_min[active] = f(np.full(int(active.sum()), s_min), np.flatnonzero(active))
     inside_gap = active & ((f_min > 0.0) == (f_hi > 0.0))
     # liquid-full: from the gap's lower end (earlier is the safe side); dew: at Tc
-    T_out[inside_gap & full] = Tc - CRITICAL_GAP_K
+    T_out[inside_gap & full] = Tc - gap
     T_out[inside_gap & ~full] = Tc
     active &= ~inside_gap
     idx = np.flatnonzero(active)
