@@ -56,11 +56,13 @@ def fill_densities(vs: Sequence[VesselInput], T_ref: float) -> np.ndarray:
 
 
 def _grids(vs: Sequence[VesselInput], T_ref: float, small: bool, mixture: bool) -> np.ndarray:
-    """Temperatures over each vessel's checked range, the same count of points for every vessel
-    of a batch size class (a scenario file, a register): the grid draws the charts; no finding
-    rests on it (limits, crossings and ranges are solved exactly)."""
+    """Temperatures over each vessel's checked range: the grid draws the charts and brackets
+    the limit crossings, which are then solved exactly. A pure gas's findings do not rest on it
+    (crossings and ranges are exact), so a large batch takes a coarser grid; a mixture's
+    two-phase window is read off its grid, so a mixture takes the same grid at every batch
+    size, and its findings never depend on its neighbours."""
     lo, hi = checked_ranges(vs, T_ref)
-    k = (MIXTURE_POINTS if mixture else FINE_POINTS) if small else COARSE_POINTS
+    k = MIXTURE_POINTS if mixture else (FINE_POINTS if small else COARSE_POINTS)
     return lo[:, None] + (hi - lo)[:, None] * np.linspace(0.0, 1.0, k)[None, :]
 
 
