@@ -120,7 +120,7 @@ def largest_safe_densities(
     if np.any(own):
         r = inf.copy()
         frac = np.array([x.min_vapour_space or 0.0 for x in lim])
-        r[own] = vapour_space_bound(fluid, Tv[own], frac[own], uncertain=False)
+        r[own] = vapour_space_bound(fluid, Tv[own], frac[own], own=True)
         cands.append((r, "minimum vapour space"))
     P_max = fluid.validity.P_max_Pa
     over = np.maximum(allow, np.nan_to_num(relief, nan=0.0)) > P_max
@@ -266,22 +266,23 @@ def _last_keeping(
 
 
 def vapour_space_bound(
-    fluid: Fluid, T: np.ndarray, fraction: np.ndarray, uncertain: bool = True
+    fluid: Fluid, T: np.ndarray, fraction: np.ndarray, own: bool = False
 ) -> np.ndarray:
     """The largest overall density [mol/m³] whose liquid fills at most 1 − fraction of the
-    vessel at T [K]: ρ_v + (1 − f)(ρ_l − ρ_v), the liquid density reduced by its uncertainty
-    where ``uncertain`` (the built-in rule at the top of the checked range). At or above the
-    critical temperature (and where a mixture has no two-phase band at T) there is no vapour
-    space to keep: the built-in rule does not bind there, and a scenario's own rule keeps the
-    density strictly below the critical density."""
+    vessel at T [K]: ρ_v + (1 − f)(ρ_l − ρ_v), with the liquid density reduced by its
+    uncertainty, so that the check of the plan finds the vapour space beyond the band it
+    reviews (vapour-space-uncertain). At or above the critical temperature (and where a mixture
+    has no two-phase band at T) there is no vapour space to keep: the built-in rule does not
+    bind there, and a scenario's ``own`` rule keeps the density strictly below the critical
+    density."""
     T = np.asarray(T, dtype=float).ravel()
     fraction = np.broadcast_to(np.asarray(fraction, dtype=float), T.shape)
     Tc, _, rhoc = fluid.model_critical
-    out = np.full(T.shape, np.inf if uncertain else rhoc * (1.0 - 1e-9))
+    out = np.full(T.shape, rhoc * (1.0 - 1e-9) if own else np.inf)
     below = T < Tc
     if np.any(below):
         sat = _saturation(fluid, T[below])
-        rl = sat.rho_liquid * (1.0 - (_liquid_u(fluid) if uncertain else 0.0))
+        rl = sat.rho_liquid * (1.0 - _liquid_u(fluid))
         r = sat.rho_vapor + (1.0 - fraction[below]) * (rl - sat.rho_vapor)
         out[below] = np.where(np.isnan(r), out[below], r)  # NaN: a mixture with no band at T
     return out
