@@ -31,6 +31,7 @@ from fillcheck.report.content import (
     verdict_sentence,
 )
 from fillcheck.report.terminal import header_rows, tally
+from fillcheck.report.wording import finding_message
 
 _CSS = """
 body { font-family: "DejaVu Sans", Arial, sans-serif; font-size: 10pt; color: #111;
@@ -68,7 +69,7 @@ def _table(rows: list[tuple[str, str]], numeric: bool = False) -> str:
 def _vessel(v: VesselAssessment, fmt: Formatter) -> str:
     findings = "".join(
         f'<tr><td class="sev-{f.severity}">{_e(f.severity.upper())}</td><td>{_e(f.code)}</td>'
-        f"<td>{_e(f.message)}</td></tr>"
+        f"<td>{_e(finding_message(f, fmt.system, fmt.atm))}</td></tr>"
         for f in sorted_findings(v)
     )
     chart = vessel_chart_svg(
@@ -84,7 +85,7 @@ def _vessel(v: VesselAssessment, fmt: Formatter) -> str:
         f'<p class="plan">{_e(fill_plan(v, fmt))}</p>'
         f'<div class="chart">{chart}</div>'
         f"<h3>Findings</h3><table>{findings}</table>"
-        f'<p class="verdict-line {v.verdict}"><b>{_e(verdict_sentence(v))}</b></p>'
+        f'<p class="verdict-line {v.verdict}"><b>{_e(verdict_sentence(v, fmt))}</b></p>'
         + (f"<h3>Cautions for this gas</h3><ul>{cautions}</ul>" if cautions else "")
         + "</section>"
     )

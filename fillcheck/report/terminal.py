@@ -25,6 +25,7 @@ from fillcheck.report.content import (
     sorted_findings,
     verdict_sentence,
 )
+from fillcheck.report.wording import finding_message
 
 _VERDICT_STYLE = {"pass": "bold green", "fail": "bold red", "review": "bold yellow"}
 _SEVERITY_STYLE = {"fail": "red", "review": "yellow", "warning": "magenta", "info": "dim"}
@@ -60,10 +61,12 @@ def _vessel_block(v: VesselAssessment, fmt: Formatter) -> Group:
     findings.add_column(ratio=1)
     for f in sorted_findings(v):
         findings.add_row(
-            Text(f.severity.upper(), style=_SEVERITY_STYLE[f.severity]), f.code, f.message
+            Text(f.severity.upper(), style=_SEVERITY_STYLE[f.severity]),
+            f.code,
+            finding_message(f, fmt.system, fmt.atm),
         )
     parts: list = [head, entered, res, Text(fill_plan(v, fmt), style="bold"), findings]
-    parts.append(Text(verdict_sentence(v), style=_VERDICT_STYLE[v.verdict]))
+    parts.append(Text(verdict_sentence(v, fmt), style=_VERDICT_STYLE[v.verdict]))
     if v.cautions:
         parts.append(Text("Cautions for this gas:", style="bold"))
         parts.extend(Text(f"  • {c}") for c in v.cautions)

@@ -1,4 +1,4 @@
-"""A register of vessels (CSV): one vessel a row, the columns of INTERFACES.md §2.
+"""A register of vessels (CSV): one vessel a row, the columns of INTERFACES.md §2 and §5.
 
 Cells are the same quantity strings as in a scenario file; an empty cell is an absent value; an
 unknown column is refused by name; errors name the row and the column. A mixture's gas cell
@@ -33,6 +33,10 @@ COLUMNS: dict[str, str] = {
     "allowable_pressure": "limits.allowable_pressure",
     "relief_set_pressure": "limits.relief_set_pressure",
     "max_filling_ratio": "limits.max_filling_ratio",
+    "working_pressure": "marking.working_pressure",
+    "service_pressure": "marking.service_pressure",
+    "test_pressure": "marking.test_pressure",
+    "tare_mass": "marking.tare_mass",
 }
 """Register column -> scenario field path."""
 REQUIRED = ("id", "gas", "water_capacity", "max_temperature", "allowable_pressure")

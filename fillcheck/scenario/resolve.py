@@ -25,6 +25,7 @@ from fillcheck.errors import InputError
 from fillcheck.fluids.catalog import FluidData, lookup, user_fluid
 from fillcheck.models.registry import has_reference_equation
 from fillcheck.scenario import bounds
+from fillcheck.scenario.markings import Marking, resolve_marking
 from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
 from fillcheck.scenario.source import read_input
 from fillcheck.scenario.text import neutralise
@@ -91,6 +92,8 @@ class VesselInput:
     notes: tuple[str, ...] = ()
     """Notes on how the input was read (a mixture's composition normalised, volume % read as
     mole %), shown on the report."""
+    marking: Marking | None = None
+    """What is stamped on the cylinder (scenario.markings), or None."""
 
 
 @dataclass(frozen=True)
@@ -545,7 +548,8 @@ def _vessel(
                 f"below the maximum '{v.storage.max_temperature}'",
             )
     limits = _limits(v, where, P_atm, fluid, entered)
-    rules = _rules(v, where, P_atm, fluid, entered)
+    marking = resolve_marking(v.marking, where, P_atm, entered)
+    rules = _rules(v, where, P_atm, fluid, entered, marking)
     return VesselInput(
         str(v.id),
         fluid,
@@ -562,6 +566,7 @@ def _vessel(
         P_atm,
         rules,
         notes,
+        marking,
     )
 
 
@@ -603,7 +608,12 @@ RULE_CLASSES = {
 
 
 def _rules(
-    v: VesselSpec, where: _Where, P_atm: float, fluid: Fluid, entered: dict[str, str]
+    v: VesselSpec,
+    where: _Where,
+    P_atm: float,
+    fluid: Fluid,
+    entered: dict[str, str],
+    marking: Marking | None = None,
 ) -> Rules | None:
     if v.rules is None:
         return None
@@ -615,8 +625,25 @@ def _rules(
             "enter the limits the code gives for the mixture",
         )
     entered["rules.set"] = v.rules.set
-    entered["rules.test_pressure"] = v.rules.test_pressure
-    P = where.pressure("rules.test_pressure", v.rules.test_pressure, P_atm)
+    marked = None if marking is None else marking.test_pressure_Pa
+    if v.rules.test_pressure is None:
+        if marked is None:
+            raise where.fail(
+                "rules.test_pressure",
+                "is required unless the cylinder's marking gives it; add "
+                'test_pressure = "300 barg" to [rules] or to marking',
+            )
+        P = marked
+    else:
+        entered["rules.test_pressure"] = v.rules.test_pressure
+        P = where.pressure("rules.test_pressure", v.rules.test_pressure, P_atm)
+        if marked is not None and abs(P - marked) > 1e-9 * marked:
+            raise where.fail(
+                "rules.test_pressure",
+                f"'{v.rules.test_pressure}' differs from marking.test_pressure "
+                f"'{entered['marking.test_pressure']}'; "
+                "give the test pressure once, as marked on the cylinder",
+            )
     lo, hi, words = RULE_CLASSES[v.rules.set]
     Tc = fluid.model_critical[0]
     if (lo is not None and Tc < lo) or (hi is not None and Tc >= hi):
@@ -852,6 +879,8 @@ def _known_keys(loc: list[Any]) -> list[str]:
             "fill": schema.FillSpec,
             "storage": schema.StorageSpec,
             "limits": schema.LimitsSpec,
+            "rules": schema.RulesSpec,
+            "marking": schema.MarkingSpec,
         }.get(p)
         if sub is None:
             return []

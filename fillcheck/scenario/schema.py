@@ -50,7 +50,18 @@ class RulesSpec(_Strict):
     """A named example rule set and the vessel's test pressure (see assess.rules)."""
 
     set: Literal["p200-compressed", "p200-high-pressure-liquefied", "p200-low-pressure-liquefied"]
-    test_pressure: Quantity
+    test_pressure: Quantity | None = None
+    """Optional where the vessel's ``marking`` gives ``test_pressure``."""
+
+
+class MarkingSpec(_Strict):
+    """What is stamped on the cylinder (INTERFACES.md §5); every key optional."""
+
+    working_pressure: Quantity | None = None
+    service_pressure: Quantity | None = None
+    allowance: Quantity | StrictFloat | StrictInt | None = None
+    test_pressure: Quantity | None = None
+    tare_mass: Quantity | None = None
 
 
 class GasSpec(_Strict):
@@ -81,6 +92,7 @@ class VesselSpec(_Strict):
     storage: StorageSpec
     limits: LimitsSpec
     rules: RulesSpec | None = None
+    marking: MarkingSpec | None = None
 
 
 class ScenarioSpec(_Strict):
