@@ -36,8 +36,23 @@ class Units(StrEnum):
     us = "us"
 
 
+def _version(value: bool) -> None:
+    if value:
+        from fillcheck import __version__
+
+        typer.echo(f"fillcheck {__version__}")
+        raise typer.Exit(EXIT_PASS)
+
+
 @app.callback()
-def _root() -> None:
+def _root(
+    version: Annotated[
+        bool,
+        typer.Option(
+            "--version", callback=_version, is_eager=True, help="Print the version and exit."
+        ),
+    ] = False,
+) -> None:
     """Real-gas checks of cylinder and pressure-vessel fills against their limits.
 
     \b
@@ -115,11 +130,12 @@ def check(
             scenario = load_scenario(file)
         with _progress(len(scenario.vessels)) as tick:
             result = assess_scenario(scenario, units.value, tick, is_register=register)
+        record = _record(scenario, file)
     if html_out is not None:
         from fillcheck.report.html_report import render_html, write_html
 
         try:
-            write_html(render_html(result, units.value), html_out, force)
+            write_html(render_html(result, units.value, record=record), html_out, force)
         except InputError as exc:
             _refuse(str(exc))
         except OSError as exc:
@@ -128,12 +144,19 @@ def check(
     if json_out:
         from fillcheck.report.json_report import render_json
 
-        typer.echo(render_json(result))
+        typer.echo(render_json(result, record))
     else:
         from fillcheck.report.terminal import render_terminal
 
-        render_terminal(result, _console(width), units.value)
+        render_terminal(result, _console(width), units.value, record=record)
     raise typer.Exit(EXIT_PASS if result.verdict == "pass" else EXIT_FINDINGS)
+
+
+def _record(scenario: Any, file: Path) -> Any:
+    """The permit-file record of a printout of ``scenario`` read from ``file``."""
+    from fillcheck.report.permit_record import make_record
+
+    return make_record(scenario, neutralise(str(file)))
 
 
 def _console(width: int | None) -> object:
@@ -235,13 +258,12 @@ def stop_table_command(
             raise InputError(f"--step '{step}' gives more than 400 rows; choose a larger step")
         temps = np.arange(lo, hi + 1e-9, dT)
         tables = [stop_table(v, sc.reference_temperature_K, temps) for v in picked]
+        record = _record(sc, file)
     if json_out:
-        typer.echo(planning_json(tables))
+        typer.echo(planning_json(tables, record))
     else:
-        render_stop_tables(tables, _console(width), units.value, sc.atmospheric_pressure_Pa)
-    over = any(
-        t.max_safe_charge_kg is None or t.target_charge_kg > t.max_safe_charge_kg for t in tables
-    )
+        render_stop_tables(tables, _console(width), units.value, sc.atmospheric_pressure_Pa, record)
+    over = any(t.max_safe_charge_kg is None or t.over_plan for t in tables)
     raise typer.Exit(EXIT_FINDINGS if over else EXIT_PASS)
 
 
@@ -259,6 +281,9 @@ def reading_command(
     ],
     json_out: Annotated[bool, typer.Option("--json", help="JSON instead of text.")] = False,
     units: Annotated[Units, typer.Option("--units", help="Display units.")] = Units.metric,
+    width: Annotated[
+        int | None, typer.Option("--width", min=40, help="Width in characters.")
+    ] = None,
 ) -> None:
     """Read a gauge: the charge, the settled pressure and how full the vessel is.
 
@@ -277,10 +302,11 @@ def reading_command(
         P = option_pressure(sc, v, "--pressure", pressure)
         T = option_temperature(sc, v, "--temperature", temperature)
         r = read_gauge(v, sc.reference_temperature_K, P, T)
+        record = _record(sc, file)
     if json_out:
-        typer.echo(planning_json(r))
+        typer.echo(planning_json(r, record))
     else:
-        render_reading(r, _console(None), units.value, sc.atmospheric_pressure_Pa)
+        render_reading(r, _console(width), units.value, sc.atmospheric_pressure_Pa, record)
     over = r.fraction_of_max_safe is None or r.fraction_of_max_safe > 1.0 or r.may_exceed_plan
     raise typer.Exit(EXIT_FINDINGS if over else EXIT_PASS)
 

@@ -40,7 +40,6 @@ CLOSING_CAUTION = (
 )
 VERDICT_WORD = {"pass": "PASS", "fail": "FAIL", "review": "REVIEW"}
 SEVERITY_ORDER = {"fail": 0, "review": 1, "warning": 2, "info": 3}
-SIGN_OFF = ("Prepared by", "Checked by", "Permit number", "Date")
 
 
 @dataclass(frozen=True)

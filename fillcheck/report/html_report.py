@@ -20,7 +20,6 @@ from fillcheck.errors import InputError
 from fillcheck.report.chart import margin_chart_svg, vessel_chart_svg
 from fillcheck.report.content import (
     CLOSING_CAUTION,
-    SIGN_OFF,
     VERDICT_WORD,
     Formatter,
     entered_rows,
@@ -30,6 +29,7 @@ from fillcheck.report.content import (
     sorted_findings,
     verdict_sentence,
 )
+from fillcheck.report.permit_record import Record, sign_off_rows
 from fillcheck.report.terminal import header_rows, tally
 from fillcheck.report.wording import finding_message
 
@@ -128,18 +128,24 @@ def _body(a: ScenarioAssessment, fmt: Formatter) -> str:
 
 
 def render_html(
-    a: ScenarioAssessment, system: units.UnitSystem = "metric", today: _dt.date | None = None
+    a: ScenarioAssessment,
+    system: units.UnitSystem = "metric",
+    today: _dt.date | None = None,
+    record: Record | None = None,
 ) -> str:
-    """The whole report as one HTML document."""
+    """The whole report as one HTML document (with the permit-file record where given)."""
     today = today or _dt.date.today()
     fmt = Formatter(system, a.atmospheric_pressure_Pa)
-    sign = "".join(f"<tr><td>{_e(label)}</td><td></td></tr>" for label in SIGN_OFF)
+    sign = "".join(
+        f"<tr><td>{_e(label)}</td><td>{_e(given)}</td></tr>"
+        for label, given in sign_off_rows(record)
+    )
     title = a.title or "(untitled)"
     return (
         '<!DOCTYPE html>\n<html lang="en"><head><meta charset="utf-8">'
         f"<title>fillcheck — {_e(title)}</title><style>{_CSS}</style></head><body>"
         "<h1>fillcheck — cylinder fill and storage check</h1>"
-        f"{_table(header_rows(a, system, today))}"
+        f"{_table(header_rows(a, system, today, record))}"
         + _body(a, fmt)
         + f'<h2>Overall verdict: <span class="verdict {a.verdict}">{VERDICT_WORD[a.verdict]}</span>'
         f"</h2><p>{_e(tally(a))}</p>"

@@ -7,6 +7,7 @@ from typing import Any
 
 from fillcheck import __version__
 from fillcheck.assess.result import EndState, Finding, ScenarioAssessment, VesselAssessment
+from fillcheck.report.permit_record import Record, record_json
 from fillcheck.report.wording import finding_message, limits_checked
 
 
@@ -106,10 +107,11 @@ def vessel_dict(v: VesselAssessment, atm: float = 101325.0) -> dict[str, Any]:
     }
 
 
-def scenario_dict(a: ScenarioAssessment) -> dict[str, Any]:
-    """The whole result."""
+def scenario_dict(a: ScenarioAssessment, record: Record | None = None) -> dict[str, Any]:
+    """The whole result (with the permit-file record's keys where given, INTERFACES.md §5)."""
     return {
         "fillcheck_version": __version__,
+        **({} if record is None else record_json(record)),
         "source": a.source,
         "title": a.title,
         "verdict": a.verdict,
@@ -119,6 +121,6 @@ def scenario_dict(a: ScenarioAssessment) -> dict[str, Any]:
     }
 
 
-def render_json(a: ScenarioAssessment) -> str:
+def render_json(a: ScenarioAssessment, record: Record | None = None) -> str:
     """The JSON text (indented, UTF-8 characters kept)."""
-    return json.dumps(scenario_dict(a), indent=2, ensure_ascii=False)
+    return json.dumps(scenario_dict(a, record), indent=2, ensure_ascii=False)

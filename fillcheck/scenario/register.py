@@ -9,6 +9,7 @@ lists its gases with their mole fractions joined by "+", e.g.
 from __future__ import annotations
 
 import csv
+import dataclasses
 import io
 import re
 from pathlib import Path
@@ -16,7 +17,7 @@ from pathlib import Path
 from fillcheck.errors import InputError
 from fillcheck.scenario.bounds import TEXT_CHARS_MAX
 from fillcheck.scenario.resolve import Scenario, scenario_from_dict
-from fillcheck.scenario.source import read_input
+from fillcheck.scenario.source import read_input_with_digest
 from fillcheck.scenario.text import neutralise
 
 COLUMNS: dict[str, str] = {
@@ -47,8 +48,8 @@ FIELDS = {v: k for k, v in COLUMNS.items()}
 def load_register(path: str | Path, title: str | None = None) -> Scenario:
     """Read and validate a CSV register of vessels."""
     p = Path(path)
-    text = read_input(path, "register (.csv)", "save the register as UTF-8 CSV")
-    return register_from_text(text, p.name, title)
+    text, digest = read_input_with_digest(path, "register (.csv)", "save the register as UTF-8 CSV")
+    return dataclasses.replace(register_from_text(text, p.name, title), input_sha256=digest)
 
 
 def _rows(text: str, name: str) -> list[list[str]]:

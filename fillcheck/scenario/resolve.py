@@ -9,6 +9,7 @@ vessel and the field, says what is wrong and what would be right, e.g.::
 
 from __future__ import annotations
 
+import dataclasses
 import difflib
 import math
 import re
@@ -27,7 +28,7 @@ from fillcheck.models.registry import has_reference_equation
 from fillcheck.scenario import bounds
 from fillcheck.scenario.markings import Marking, resolve_marking
 from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
-from fillcheck.scenario.source import read_input
+from fillcheck.scenario.source import read_input_with_digest
 from fillcheck.scenario.text import neutralise
 from fillcheck.thermo.fluid import Fluid
 from fillcheck.thermo.limits import FIRE_TEMPERATURE_K, highest_temperature_K
@@ -105,12 +106,23 @@ class Scenario:
     reference_temperature_K: float
     atmospheric_pressure_Pa: float
     vessels: tuple[VesselInput, ...]
+    site: str | None = None
+    """Where the vessels are filled or stored, for the record (optional)."""
+    permit_number: str | None = None
+    """The work permit the check belongs to (optional)."""
+    prepared_by: str | None = None
+    """Who prepared the check (optional)."""
+    input_sha256: str | None = None
+    """Hex SHA-256 of the input file's bytes as read (None for a scenario not read from a
+    file)."""
 
 
 def load_scenario(path: str | Path) -> Scenario:
     """Read and validate a TOML scenario file."""
     name = Path(path).name
-    text = read_input(path, "scenario (.toml)", "save the scenario as UTF-8 TOML")
+    text, digest = read_input_with_digest(
+        path, "scenario (.toml)", "save the scenario as UTF-8 TOML"
+    )
     if not text.strip():
         raise InputError(f"{name}: is empty; a scenario needs at least one [[vessel]] table")
     try:
@@ -128,7 +140,7 @@ def load_scenario(path: str | Path) -> Scenario:
         raise InputError(
             f"{name}: is not valid TOML ({exc}); check the numbers in the file"
         ) from None
-    return scenario_from_dict(raw, name)
+    return dataclasses.replace(scenario_from_dict(raw, name), input_sha256=digest)
 
 
 def scenario_from_dict(
@@ -183,7 +195,16 @@ def scenario_from_dict(
             raise w.fail("id", "the id is used twice; give every vessel its own id")
         seen.add(vid)
         vessels.append(_vessel(v, w, P_atm, user_gases, fluids, T_ref))
-    return Scenario(name, spec.title, T_ref, P_atm, tuple(vessels))
+    return Scenario(
+        name,
+        spec.title,
+        T_ref,
+        P_atm,
+        tuple(vessels),
+        spec.site,
+        None if spec.permit_number is None else str(spec.permit_number),
+        spec.prepared_by,
+    )
 
 
 class _Where:

@@ -99,6 +99,9 @@ class ScenarioSpec(_Strict):
     """A whole scenario file."""
 
     title: StrictStr | None = None
+    site: StrictStr | None = None
+    permit_number: StrictStr | StrictInt | None = None
+    prepared_by: StrictStr | None = None
     reference_temperature: Quantity = "15 degC"
     atmospheric_pressure: Quantity = "101.325 kPa absolute"
     gas: list[GasSpec] = Field(default_factory=list)
