@@ -333,3 +333,20 @@ def test_rules_need_a_test_pressure_from_somewhere() -> None:
                 rules={"set": "p200-compressed", "test_pressure": "250 barg"},
             )
         )
+
+
+def test_dense_supercritical_gas_gets_no_vapour_space_warning() -> None:
+    # nitrogen filled cold to 300 barg at 0 degC: 328.3 kg/m³ by CoolProp (Span et al. 2000),
+    # above its critical density 313.3 kg/m³, yet far above its critical temperature (126.2 K)
+    # all through the range: there is no liquid and no vapour space to warn about
+    rho = CP.PropsSI("D", "T", 273.15, "P", 300e5 + ATM, "Nitrogen")
+    assert rho > CP.PropsSI("rhocrit", "Nitrogen")
+    (a,), _ = _assess(
+        {
+            **_vessel("nitrogen", {"pressure": "300 barg", "temperature": "0 degC"}),
+            "limits": {"allowable_pressure": "450 barg"},
+        }
+    )
+    assert a.density_kg_m3 == pytest.approx(rho, rel=1e-9)
+    assert "vapour-space-low" not in _codes(a)
+    assert a.verdict == "pass"

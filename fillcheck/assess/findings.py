@@ -369,7 +369,9 @@ def _top_liquid_findings(
         )
         return out
     liquid = a.liquid_fraction_at_top
-    if v.limits.min_vapour_space is None and liquid is not None and liquid > 0.0:
+    # above the critical temperature there is no liquid and no vapour space to keep
+    supercritical = str(path.phase[-1]) == "supercritical"
+    if v.limits.min_vapour_space is None and liquid and not supercritical:
         left = 1.0 - liquid
         if left < VAPOUR_SPACE_WARNING:
             out.append(
