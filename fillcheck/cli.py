@@ -84,8 +84,13 @@ def check(
         ),
     ] = False,
     units: Annotated[
-        Units, typer.Option("--units", help="Display units of the report.")
-    ] = Units.metric,
+        Units | None,
+        typer.Option(
+            "--units",
+            help="Display units of the report (default: the scenario's units, else US units "
+            "for a file written in US units only, else metric).",
+        ),
+    ] = None,
     html_out: Annotated[
         Path | None,
         typer.Option("--html", help="Also write a printable HTML report with a chart per vessel."),
@@ -129,13 +134,14 @@ def check(
 
             scenario = load_scenario(file)
         with _progress(len(scenario.vessels)) as tick:
-            result = assess_scenario(scenario, units.value, tick, is_register=register)
+            system = _system(units, scenario)
+            result = assess_scenario(scenario, system, tick, is_register=register)
         record = _record(scenario, file)
     if html_out is not None:
         from fillcheck.report.html_report import render_html, write_html
 
         try:
-            write_html(render_html(result, units.value, record=record), html_out, force)
+            write_html(render_html(result, system, record=record), html_out, force)
         except InputError as exc:
             _refuse(str(exc))
         except OSError as exc:
@@ -148,8 +154,13 @@ def check(
     else:
         from fillcheck.report.terminal import render_terminal
 
-        render_terminal(result, _console(width), units.value, record=record)
+        render_terminal(result, _console(width), system, record=record)
     raise typer.Exit(EXIT_PASS if result.verdict == "pass" else EXIT_FINDINGS)
+
+
+def _system(option: Units | None, scenario: Any) -> Any:
+    """The unit system of a printout: the option, else the scenario's."""
+    return option.value if option is not None else scenario.units
 
 
 def _record(scenario: Any, file: Path) -> Any:
@@ -226,7 +237,9 @@ def stop_table_command(
     stop: Annotated[str, typer.Option("--to", help="Highest gas temperature.")] = "60 degC",
     step: Annotated[str, typer.Option("--step", help="Temperature step.")] = "5 K",
     json_out: Annotated[bool, typer.Option("--json", help="JSON instead of the table.")] = False,
-    units: Annotated[Units, typer.Option("--units", help="Display units.")] = Units.metric,
+    units: Annotated[
+        Units | None, typer.Option("--units", help="Display units (default: the scenario's).")
+    ] = None,
     width: Annotated[
         int | None, typer.Option("--width", min=40, help="Width in characters.")
     ] = None,
@@ -262,7 +275,9 @@ def stop_table_command(
     if json_out:
         typer.echo(planning_json(tables, record))
     else:
-        render_stop_tables(tables, _console(width), units.value, sc.atmospheric_pressure_Pa, record)
+        render_stop_tables(
+            tables, _console(width), _system(units, sc), sc.atmospheric_pressure_Pa, record
+        )
     over = any(t.max_safe_charge_kg is None or t.over_plan for t in tables)
     raise typer.Exit(EXIT_FINDINGS if over else EXIT_PASS)
 
@@ -280,7 +295,9 @@ def reading_command(
         typer.Option("--temperature", help="Gas temperature, e.g. '30 degC'.", show_default=False),
     ],
     json_out: Annotated[bool, typer.Option("--json", help="JSON instead of text.")] = False,
-    units: Annotated[Units, typer.Option("--units", help="Display units.")] = Units.metric,
+    units: Annotated[
+        Units | None, typer.Option("--units", help="Display units (default: the scenario's).")
+    ] = None,
     width: Annotated[
         int | None, typer.Option("--width", min=40, help="Width in characters.")
     ] = None,
@@ -306,7 +323,7 @@ def reading_command(
     if json_out:
         typer.echo(planning_json(r, record))
     else:
-        render_reading(r, _console(width), units.value, sc.atmospheric_pressure_Pa, record)
+        render_reading(r, _console(width), _system(units, sc), sc.atmospheric_pressure_Pa, record)
     over = r.fraction_of_max_safe is None or r.fraction_of_max_safe > 1.0 or r.may_exceed_plan
     raise typer.Exit(EXIT_FINDINGS if over else EXIT_PASS)
 

@@ -23,6 +23,7 @@ ENTERED_LABELS = {
     "limits.allowable_pressure": "allowable pressure",
     "limits.relief_set_pressure": "relief set pressure",
     "limits.max_filling_ratio": "maximum filling ratio",
+    "limits.max_filling_density": "maximum filling density (of water at 60 °F)",
     "limits.min_vapour_space": "minimum vapour space",
     "limits.vapour_space_temperature": "vapour space at",
     "rules.set": "rule set",
@@ -83,9 +84,14 @@ def result_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
     rows = [("charge per vessel", fmt.m(v.charged_mass_kg))]
     if v.count > 1:
         rows.append((f"charge, {v.count} vessels", fmt.m(v.charged_mass_kg * v.count)))
-    density = units.format_density(v.density_kg_m3, s)
-    ratio = units.format_filling_ratio(v.density_kg_m3, s)
-    rows.append(("density (filling ratio)", f"{density} ({ratio})"))
+    if s == "us":
+        rows.append(
+            ("filling density (of water at 60 °F)", units.format_filling_density(v.density_kg_m3))
+        )
+    else:
+        density = units.format_density(v.density_kg_m3, s)
+        ratio = units.format_filling_ratio(v.density_kg_m3, s)
+        rows.append(("density (filling ratio)", f"{density} ({ratio})"))
     if v.fill_pressure_Pa is not None:
         rows.append((f"pressure at fill, {t(v.fill_temperature_K)}", p(v.fill_pressure_Pa)))
         rows.append(("Z at fill", f"{v.fill_Z:.4f}"))

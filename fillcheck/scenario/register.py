@@ -34,6 +34,7 @@ COLUMNS: dict[str, str] = {
     "allowable_pressure": "limits.allowable_pressure",
     "relief_set_pressure": "limits.relief_set_pressure",
     "max_filling_ratio": "limits.max_filling_ratio",
+    "max_filling_density": "limits.max_filling_density",
     "working_pressure": "marking.working_pressure",
     "service_pressure": "marking.service_pressure",
     "test_pressure": "marking.test_pressure",

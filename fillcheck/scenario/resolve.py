@@ -115,6 +115,9 @@ class Scenario:
     input_sha256: str | None = None
     """Hex SHA-256 of the input file's bytes as read (None for a scenario not read from a
     file)."""
+    units: str = "metric"
+    """The unit system the report uses unless the command line says otherwise: the scenario's
+    ``units``, else "us" for a file whose every quantity is in US units, else "metric"."""
 
 
 def load_scenario(path: str | Path) -> Scenario:
@@ -204,7 +207,32 @@ def scenario_from_dict(
         spec.site,
         None if spec.permit_number is None else str(spec.permit_number),
         spec.prepared_by,
+        units=spec.units or preferred_units(vessels, raw if isinstance(raw, dict) else {}),
     )
+
+
+_US_UNIT_RE = re.compile(
+    r"(psi[ga]?|psi ?\(?[ga]\)?|°f|degf|deg f|fahrenheit|lbs?|gal|usgal|us gal|ft3|ft\^3|ft³|"
+    r"cu ft)$",
+    re.IGNORECASE,
+)
+_NUMBER_ONLY_RE = re.compile(r"^[\s+\-0-9.eE]*(%|percent|ppm)?\s*$", re.IGNORECASE)
+
+
+def preferred_units(vessels: Any, raw: dict[str, Any]) -> str:
+    """ "us" where every quantity the user wrote (fractions aside) is in a US unit (psig, psia,
+    °F, lb, gal, ft³), else "metric"."""
+    texts = [t for v in vessels for t in v.entered.values()]
+    texts += [str(raw[k]) for k in ("reference_temperature", "atmospheric_pressure") if k in raw]
+    quantities = [
+        t.strip()
+        for t in texts
+        if isinstance(t, str)
+        and t.strip()[:1] not in ("", *"abcdefghijklmnopqrstuvwxyz")
+        and not _NUMBER_ONLY_RE.match(t)
+    ]
+    us = bool(quantities) and all(_US_UNIT_RE.search(t) for t in quantities)
+    return "us" if us else "metric"
 
 
 class _Where:
@@ -481,7 +509,7 @@ def _vessel(
 ) -> VesselInput:
     fluid, note, notes = _fluid_for(v, where, user_gases, fluids)
     entered: dict[str, str] = {"water_capacity": v.water_capacity}
-    V = where.run("water_capacity", units.parse_volume, v.water_capacity)
+    V = where.run("water_capacity", _water_capacity, v.water_capacity)
     if V <= 0:
         raise where.fail("water_capacity", f"'{v.water_capacity}' must be larger than zero")
     if not bounds.WATER_CAPACITY_MIN_m3 <= V <= bounds.WATER_CAPACITY_MAX_m3:
@@ -589,6 +617,21 @@ def _vessel(
         notes,
         marking,
     )
+
+
+def _water_capacity(text: str) -> float:
+    """A water capacity [m³]: a volume, or the weight of water the vessel holds in lb, as US
+    cylinders are stamped (``"96.5 lb"``: that mass of water at 60 °F,
+    units.WATER_DENSITY_60F_kg_m3)."""
+    try:
+        return units.parse_volume(text)
+    except InputError as as_volume:
+        if not re.search(r"\d\s*lbs?\s*$", text, re.IGNORECASE):
+            raise  # a mass in kg is a typing error here, not a US stamp
+        try:
+            return units.parse_mass(text) / units.WATER_DENSITY_60F_kg_m3
+        except InputError:
+            raise as_volume from None
 
 
 def _refuse_liquefied_pressure_fill(
@@ -720,6 +763,20 @@ def _limits(
         entered["limits.relief_set_pressure"] = lim.relief_set_pressure
         relief = where.pressure("limits.relief_set_pressure", lim.relief_set_pressure, P_atm)
     fr = None
+    if lim.max_filling_ratio is not None and lim.max_filling_density is not None:
+        raise where.fail(
+            "limits.max_filling_density",
+            "states the same limit as max_filling_ratio; give one of them",
+        )
+    if lim.max_filling_density is not None:
+        entered["limits.max_filling_density"] = str(lim.max_filling_density)
+        pct = where.run("limits.max_filling_density", units.parse_fraction, lim.max_filling_density)
+        if pct <= 0:
+            raise where.fail(
+                "limits.max_filling_density",
+                f"'{lim.max_filling_density}' must be larger than zero, e.g. \"68 %\"",
+            )
+        fr = pct * units.WATER_DENSITY_60F_kg_m3
     if lim.max_filling_ratio is not None:
         entered["limits.max_filling_ratio"] = lim.max_filling_ratio
         fr = where.run("limits.max_filling_ratio", units.parse_filling_ratio, lim.max_filling_ratio)

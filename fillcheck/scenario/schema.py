@@ -42,6 +42,9 @@ class LimitsSpec(_Strict):
     allowable_pressure: Quantity
     relief_set_pressure: Quantity | None = None
     max_filling_ratio: Quantity | None = None
+    max_filling_density: Quantity | StrictFloat | StrictInt | None = None
+    """A US filling density: the charge as a percentage of the weight of water the vessel holds
+    at 60 °F, e.g. "68 %" (instead of max_filling_ratio)."""
     min_vapour_space: Quantity | StrictFloat | StrictInt | None = None
     vapour_space_temperature: Quantity | None = None
 
@@ -102,6 +105,7 @@ class ScenarioSpec(_Strict):
     site: StrictStr | None = None
     permit_number: StrictStr | StrictInt | None = None
     prepared_by: StrictStr | None = None
+    units: Literal["metric", "us"] | None = None
     reference_temperature: Quantity = "15 degC"
     atmospheric_pressure: Quantity = "101.325 kPa absolute"
     gas: list[GasSpec] = Field(default_factory=list)
