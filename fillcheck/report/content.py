@@ -168,13 +168,13 @@ def fill_plan(v: VesselAssessment, fmt: Formatter) -> str:
                 f"; stop the fill at {p(v.max_safe_fill_pressure_Pa)} while the gas is at "
                 f"{t(v.fill_temperature_K)}"
             )
+        out.append(s + f" ({v.governing_limit} governs).")
         r = v.marking
         if r is not None and r.max_safe_gross_mass_kg is not None:
-            s += (
-                f"; by weight, stop at a scale reading of {fmt.m(r.max_safe_gross_mass_kg)} "
-                f"(marked tare {fmt.m(r.tare_mass_kg)})"
+            out.append(
+                f"By weight: stop at a scale reading of {fmt.m(r.max_safe_gross_mass_kg)} "
+                f"(marked tare {fmt.m(r.tare_mass_kg)} + {fmt.m(_floor(v.max_safe_charge_kg))})."
             )
-        out.append(s + f" ({v.governing_limit} governs).")
     return " ".join(out)
 
 
@@ -182,7 +182,9 @@ def _floor(kg: float) -> float:
     """A charge rounded down to the 10 g a report shows, so a printed plan never exceeds it."""
     import math
 
-    return math.floor(kg * 100.0) / 100.0
+    # the charge is already rounded down to 10 g: the small addend keeps 19.99 from printing
+    # as 19.98 when 19.99 * 100 falls just below 1999 in binary
+    return math.floor(kg * 100.0 + 1e-6) / 100.0
 
 
 def sorted_findings(v: VesselAssessment) -> list[Finding]:

@@ -56,10 +56,10 @@ def finding_message(f: Finding, system: units.UnitSystem = "metric", atm: float 
     if f.code == "margin-working":
         gauge = d["limit_Pa"] - atm
         margin = d["limit_Pa"] - d["settled_pressure_Pa"]
-        share = f" ({margin / gauge:+.1%} of the gauge limit)" if gauge > 0 else ""
         # a fill entered at the marked pressure is solved back to it within round-off
         sign = "+" if margin >= -RATED_TOLERANCE * d["limit_Pa"] else "-"
         margin = max(margin, 0.0) if sign == "+" else margin
+        share = f" ({margin / gauge:+.1%} of the gauge limit)" if gauge > 0 else ""
         return (
             f"{_rated(d, p, t)}: settled pressure there {p(d['settled_pressure_Pa'])}, margin "
             f"{sign}{_span(abs(margin), system)}{share}"
