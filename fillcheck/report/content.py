@@ -137,7 +137,7 @@ def result_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
     if v.max_safe_charge_kg is not None:
         rows.append(
             (
-                "largest safe charge",
+                "largest charge within the limits",
                 f"{fmt.m(_floor(v.max_safe_charge_kg))} ({v.governing_limit} governs)",
             )
         )

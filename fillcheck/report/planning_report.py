@@ -68,14 +68,15 @@ def render_stop_tables(
         )
         if st.max_safe_charge_kg is not None:
             console.print(
-                f"Largest safe charge: {units.format_mass(st.max_safe_charge_kg, system)} "
+                "Largest charge within the limits: "
+                f"{units.format_mass(st.max_safe_charge_kg, system)} "
                 f"({st.governing_limit} governs)."
             )
             if st.over_plan:
                 console.print(
                     Text(
-                        "The planned charge is ABOVE the largest safe charge: do not fill to this "
-                        "plan; use the right-hand column.",
+                        "The planned charge is ABOVE the largest charge within the limits: do "
+                        "not fill to this plan; use the right-hand column.",
                         style="bold red",
                     )
                 )
@@ -90,7 +91,7 @@ def render_stop_tables(
         table.add_column("gas temperature", justify="right")
         table.add_column("stop the fill at", justify="right")
         table.add_column("phase")
-        table.add_column("never above (largest safe charge)", justify="right")
+        table.add_column("never above (largest charge within the limits)", justify="right")
         for r in st.rows:
             weigh = r.weigh or r.phase in ("two-phase", "liquid")
             shown = "weigh the fill" if weigh else p(r.stop_pressure_Pa)
@@ -148,17 +149,20 @@ def render_reading(
     )
     line = f"That is {r.fraction_of_target:.1%} of the planned charge"
     if r.fraction_of_max_safe is not None:
-        line += f" and {r.fraction_of_max_safe:.1%} of the largest safe charge"
+        line += f" and {r.fraction_of_max_safe:.1%} of the largest charge within the limits"
     console.print(line + ".")
     if r.fraction_of_max_safe is not None and r.fraction_of_max_safe > 1.0:
         console.print(
-            Text("Above the largest safe charge: do not store it this full.", style="bold red")
+            Text(
+                "Above the largest charge within the limits: do not store it this full.",
+                style="bold red",
+            )
         )
     elif r.may_exceed_plan:
         console.print(
             Text(
                 "Within the gauge's and the thermometer's errors the charge may be over the "
-                "largest safe charge: weigh it before storing it.",
+                "largest charge within the limits: weigh it before storing it.",
                 style="bold red",
             )
         )
