@@ -91,7 +91,7 @@ def render_stop_tables(
         table.add_column("gas temperature", justify="right")
         table.add_column("stop the fill at", justify="right")
         table.add_column("phase")
-        table.add_column("never above (largest charge within the limits)", justify="right")
+        table.add_column("never above (largest charge)", justify="right")
         for r in st.rows:
             weigh = r.weigh or r.phase in ("two-phase", "liquid")
             shown = "weigh the fill" if weigh else p(r.stop_pressure_Pa)
