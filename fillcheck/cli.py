@@ -84,8 +84,13 @@ def check(
         ),
     ] = False,
     units: Annotated[
-        Units, typer.Option("--units", help="Display units of the report.")
-    ] = Units.metric,
+        Units | None,
+        typer.Option(
+            "--units",
+            help="Display units of the report (default: the scenario's units, else US units "
+            "for a file written in US units only, else metric).",
+        ),
+    ] = None,
     html_out: Annotated[
         Path | None,
         typer.Option("--html", help="Also write a printable HTML report with a chart per vessel."),
@@ -123,7 +128,7 @@ def check(
     if jsonl_out is not None:
         if json_out or html_out is not None:
             _refuse("give --jsonl alone: it replaces the report, --json and --html")
-        _check_jsonl(file, jsonl_out, force, units.value)
+        _check_jsonl(file, jsonl_out, force, units)
     if html_out is not None:
         from fillcheck.report.html_report import destination_problem
 
@@ -141,12 +146,14 @@ def check(
 
             scenario = load_scenario(file)
         with _progress(len(scenario.vessels)) as tick:
-            result = assess_scenario(scenario, units.value, tick, is_register=register)
+            system = _system(units, scenario)
+            result = assess_scenario(scenario, system, tick, is_register=register)
+        record = _record(scenario, file)
     if html_out is not None:
         from fillcheck.report.html_report import render_html, write_html
 
         try:
-            write_html(render_html(result, units.value), html_out, force)
+            write_html(render_html(result, system, record=record), html_out, force)
         except InputError as exc:
             _refuse(str(exc))
         except OSError as exc:
@@ -155,15 +162,15 @@ def check(
     if json_out:
         from fillcheck.report.json_report import render_json
 
-        typer.echo(render_json(result))
+        typer.echo(render_json(result, record))
     else:
         from fillcheck.report.terminal import render_terminal
 
-        render_terminal(result, _console(width), units.value)
+        render_terminal(result, _console(width), system, record=record)
     raise typer.Exit(EXIT_PASS if result.verdict == "pass" else EXIT_FINDINGS)
 
 
-def _check_jsonl(file: Path, out: str, force: bool, system: str) -> None:
+def _check_jsonl(file: Path, out: str, force: bool, units: Units | None) -> None:
     """``check --jsonl``: stream one JSON line a vessel to ``out`` ('-' for stdout), written to
     a temporary file and renamed when complete (a refused or failed run leaves nothing)."""
     import json
@@ -191,6 +198,7 @@ def _check_jsonl(file: Path, out: str, force: bool, system: str) -> None:
             if file.suffix.lower() == ".csv":
                 from fillcheck.scenario.register import read_rows
 
+                system = units.value if units is not None else "metric"
                 results = stream_register(read_rows(file), file.name, system)  # type: ignore[arg-type]
             else:
                 from fillcheck.assess.batch import assess_many
@@ -198,6 +206,7 @@ def _check_jsonl(file: Path, out: str, force: bool, system: str) -> None:
                 from fillcheck.scenario.resolve import load_scenario
 
                 sc = load_scenario(file)
+                system = _system(units, sc)
                 results = (
                     vessel_dict(a)
                     for a in assess_many(sc.vessels, sc.reference_temperature_K, system)  # type: ignore[arg-type]
@@ -222,6 +231,18 @@ def _check_jsonl(file: Path, out: str, force: bool, system: str) -> None:
         err=True,
     )
     raise typer.Exit(EXIT_PASS if total == counts["pass"] else EXIT_FINDINGS)
+
+
+def _system(option: Units | None, scenario: Any) -> Any:
+    """The unit system of a printout: the option, else the scenario's."""
+    return option.value if option is not None else scenario.units
+
+
+def _record(scenario: Any, file: Path) -> Any:
+    """The permit-file record of a printout of ``scenario`` read from ``file``."""
+    from fillcheck.report.permit_record import make_record
+
+    return make_record(scenario, neutralise(str(file)))
 
 
 def _console(width: int | None) -> object:
@@ -291,7 +312,9 @@ def stop_table_command(
     stop: Annotated[str, typer.Option("--to", help="Highest gas temperature.")] = "60 degC",
     step: Annotated[str, typer.Option("--step", help="Temperature step.")] = "5 K",
     json_out: Annotated[bool, typer.Option("--json", help="JSON instead of the table.")] = False,
-    units: Annotated[Units, typer.Option("--units", help="Display units.")] = Units.metric,
+    units: Annotated[
+        Units | None, typer.Option("--units", help="Display units (default: the scenario's).")
+    ] = None,
     width: Annotated[
         int | None, typer.Option("--width", min=40, help="Width in characters.")
     ] = None,
@@ -323,13 +346,14 @@ def stop_table_command(
             raise InputError(f"--step '{step}' gives more than 400 rows; choose a larger step")
         temps = np.arange(lo, hi + 1e-9, dT)
         tables = [stop_table(v, sc.reference_temperature_K, temps) for v in picked]
+        record = _record(sc, file)
     if json_out:
-        typer.echo(planning_json(tables))
+        typer.echo(planning_json(tables, record))
     else:
-        render_stop_tables(tables, _console(width), units.value, sc.atmospheric_pressure_Pa)
-    over = any(
-        t.max_safe_charge_kg is None or t.target_charge_kg > t.max_safe_charge_kg for t in tables
-    )
+        render_stop_tables(
+            tables, _console(width), _system(units, sc), sc.atmospheric_pressure_Pa, record
+        )
+    over = any(t.max_safe_charge_kg is None or t.over_plan for t in tables)
     raise typer.Exit(EXIT_FINDINGS if over else EXIT_PASS)
 
 
@@ -356,7 +380,12 @@ def reading_command(
         typer.Option("--thermometer-error", help="How far the gas temperature may be off."),
     ] = "2 K",
     json_out: Annotated[bool, typer.Option("--json", help="JSON instead of text.")] = False,
-    units: Annotated[Units, typer.Option("--units", help="Display units.")] = Units.metric,
+    units: Annotated[
+        Units | None, typer.Option("--units", help="Display units (default: the scenario's).")
+    ] = None,
+    width: Annotated[
+        int | None, typer.Option("--width", min=40, help="Width in characters.")
+    ] = None,
 ) -> None:
     """Read a gauge: the charge, the settled pressure and how full the vessel is.
 
@@ -387,10 +416,13 @@ def reading_command(
                 f"option --thermometer-error: {thermometer_error!r} is not between 0 K and 20 K"
             )
         r = read_gauge(v, sc.reference_temperature_K, P, T, g, dT)
+
+        r = read_gauge(v, sc.reference_temperature_K, P, T)
+        record = _record(sc, file)
     if json_out:
-        typer.echo(planning_json(r))
+        typer.echo(planning_json(r, record))
     else:
-        render_reading(r, _console(None), units.value, sc.atmospheric_pressure_Pa)
+        render_reading(r, _console(width), _system(units, sc), sc.atmospheric_pressure_Pa, record)
     over = r.fraction_of_max_safe is None or r.fraction_of_max_safe > 1.0 or r.may_exceed_plan
     raise typer.Exit(EXIT_FINDINGS if over else EXIT_PASS)
 

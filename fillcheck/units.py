@@ -23,6 +23,11 @@ _FT3_m3 = 0.3048**3  # cubic foot, exact by definition of the foot
 _USGAL_m3 = 3.785411784e-3  # US liquid gallon (231 in³), exact
 _PSI_Pa = _LB_kg * 9.80665 / 0.0254**2  # pound-force per square inch
 _F_K = 5.0 / 9.0  # one degree Fahrenheit (or Rankine) in kelvin
+WATER_DENSITY_60F_kg_m3 = 999.017
+"""Density of water at 60 °F (15.56 °C) and 1 atm [kg/m³] (IAPWS-95, Wagner, Pruß (2002), J.
+Phys. Chem. Ref. Data 31, 387, as evaluated by CoolProp 8.0.0: 999.0171). A US filling density
+is the charge as a percentage of the weight of water the container holds at 60 °F (49 CFR
+173.304a, from memory), so 1 % is 9.99017 kg per m³ of water capacity."""
 
 _Table = dict[str, tuple[float, float]]
 
@@ -422,10 +427,23 @@ def format_density(kg_m3: float, system: UnitSystem = "metric", digits: int | No
 def format_filling_ratio(
     kg_m3: float, system: UnitSystem = "metric", digits: int | None = None
 ) -> str:
-    """Show a filling ratio [kg/m³] as ``kg/L`` (metric, 3 digits) or ``lb/gal`` (us, 2 digits)."""
+    """Show a filling ratio [kg/m³] as ``kg/L`` (metric, 3 digits) or, in US units, as a
+    filling density: the percentage of the water capacity's weight of water at 60 °F (1 digit),
+    e.g. ``"68.0 % filling density"``."""
     if _us(system):
-        return f"{_num(kg_m3 * _USGAL_m3 / _LB_kg, 2 if digits is None else digits)} lb/gal"
+        return f"{format_filling_density(kg_m3, 1 if digits is None else digits)} filling density"
     return f"{_num(kg_m3 / 1e3, 3 if digits is None else digits)} kg/L"
+
+
+def format_charge_density(kg_m3: float, system: UnitSystem = "metric") -> str:
+    """Show a vessel's charge per water capacity [kg/m³] as a density in ``kg/m³`` (metric) or,
+    as the US trade states it, a filling density (``"66.7 % filling density"``)."""
+    return format_filling_ratio(kg_m3, system) if _us(system) else format_density(kg_m3, system)
+
+
+def format_filling_density(kg_m3: float, digits: int = 1) -> str:
+    """Show a filling ratio [kg/m³] as a US filling density [%], e.g. ``"68.0 %"``."""
+    return f"{_num(100.0 * kg_m3 / WATER_DENSITY_60F_kg_m3, digits)} %"
 
 
 def pressure_rate_per_K(Pa_per_K: float, system: UnitSystem = "metric", digits: int = 1) -> str:

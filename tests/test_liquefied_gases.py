@@ -102,4 +102,4 @@ def test_stop_table_of_an_overfilled_plan_exits_1() -> None:
             "100",
         ],
     )
-    assert res.exit_code == 1 and "ABOVE the largest safe charge" in res.output
+    assert res.exit_code == 1 and "ABOVE the largest charge within the limits" in res.output

@@ -357,7 +357,8 @@ def test_format_examples():
     assert format_density(357.7, "us") == "22.33 lb/ft³"
     assert format_density(357.7, digits=0) == "358 kg/m³"
     assert format_filling_ratio(750.0) == "0.750 kg/L"
-    assert format_filling_ratio(750.0, "us") == "6.26 lb/gal"
+    # US filling density: 750 kg/m³ over water at 60 °F, 999.017 kg/m³ (IAPWS-95 via CoolProp)
+    assert format_filling_ratio(750.0, "us") == "75.1 % filling density"
     assert pressure_rate_per_K(1.2e5) == "1.2 bar/K"
     assert pressure_rate_per_K(1.2e5, "us") == "9.7 psi/°F"
 

@@ -19,6 +19,7 @@ from fillcheck.assess.cautions import cautions_for
 from fillcheck.assess.charge import largest_safe_densities
 from fillcheck.assess.checked_range import checked_ranges
 from fillcheck.assess.findings import vessel_findings
+from fillcheck.assess.markings import apply_marking, rated_pressures
 from fillcheck.assess.mixture_findings import dropout_at_coldest, mixture_findings
 from fillcheck.assess.result import EndState, VesselAssessment
 from fillcheck.assess.uncertainty import pressure_uncertainty
@@ -227,6 +228,7 @@ def _assess_group(
     rows = np.arange(n)
     u_top = pressure_uncertainty(f, T_hi, rho, phase[rows, -1])
     T_upper = highest_temperature_K(f)
+    rated = rated_pressures(f, vs, rho)
     results = []
     for j, v in enumerate(vs):
         p_j = VesselPath(
@@ -297,6 +299,7 @@ def _assess_group(
         # a mixture filled as a gas that only condenses in the cold is not a liquefied gas
         a.liquefied = bool(liquefied_at_ref[j]) if mixture else None
         a.findings, a.limits_checked = vessel_findings(v, a, p_j, system)
+        apply_marking(v, a, rated[j])
         if mixture:
             a.composition = dict(zip(f.component_names, map(float, f.z), strict=True))
             a.dropout = dropout_at_coldest(f, path, slice(j * k, (j + 1) * k))

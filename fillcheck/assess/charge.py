@@ -42,6 +42,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from fillcheck.assess.checked_range import checked_ranges
+from fillcheck.assess.markings import marking_bounds
 from fillcheck.assess.rules import rule_limits
 from fillcheck.assess.uncertainty import pressure_uncertainty
 from fillcheck.thermo.bracketed import illinois
@@ -137,6 +138,7 @@ def largest_safe_densities(
             r = inf.copy()
             r[j] = 0.0 if rl.density_mol is None else rl.density_mol
             cands.append((r, f"{v.rules.set}: {rl.name}"))
+    cands += marking_bounds(fluid, vs)  # a marked working or service pressure
     stack = np.vstack([c for c, _ in cands])
     best = stack.argmin(axis=0)
     rho = stack[best, np.arange(n)]

@@ -207,7 +207,7 @@ def vessel_findings(
                 if a.count > 1
                 else ""
             )
-            + f" ({units.format_density(a.density_kg_m3, system)}); "
+            + f" ({units.format_charge_density(a.density_kg_m3, system)}); "
             f"pressure {p(a.max_state.pressure_Pa)} at {t(a.max_state.temperature_K)}, "
             f"{p(a.min_state.pressure_Pa)} at {t(a.min_state.temperature_K)} "
             f"(range {T_range})",

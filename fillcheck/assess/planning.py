@@ -55,6 +55,10 @@ class StopTable:
     max_safe_charge_kg: float | None
     governing_limit: str | None
     rows: list[StopRow]
+    over_plan: bool = False
+    """Whether the planned charge is above the largest charge keeping every limit before that
+    is rounded down to the printed figure (a fill entered exactly at a marked working pressure
+    is not over, though the printed figure lies up to 10 g below it)."""
 
 
 def stop_table(v: VesselInput, T_ref: float, temperatures_K: np.ndarray) -> StopTable:
@@ -96,7 +100,14 @@ def stop_table(v: VesselInput, T_ref: float, temperatures_K: np.ndarray) -> Stop
         max_safe_charge_kg=None if safe is None else safe.density_mol * M * v.water_capacity_m3,
         governing_limit=None if safe is None else safe.governing,
         rows=rows,
+        over_plan=_over_plan(v, T_ref, rho),
     )
+
+
+def _over_plan(v: VesselInput, T_ref: float, rho: float) -> bool:
+    """Whether a target density [mol/m³] is above the unrounded largest safe density."""
+    exact = largest_safe_density(v.fluid, v, T_ref, round_down=False)
+    return exact is None or rho > exact.density_mol * (1.0 + 1e-9)
 
 
 @dataclass(frozen=True)

@@ -22,11 +22,15 @@ def worst(words: set[str]) -> Verdict:
 
 @dataclass(frozen=True)
 class Finding:
-    """One finding: a stable code, a severity and a message for people."""
+    """One finding: a stable code, a severity and a message for people.
+
+    A finding given as data has an empty ``message`` and its SI quantities in ``data`` (keys
+    carry their units: ``limit_Pa``, ``temperature_K``); report.wording writes its words."""
 
     code: str
     severity: Severity
     message: str
+    data: dict[str, float | str | None] | None = field(default=None, compare=False, hash=False)
 
 
 @dataclass(frozen=True)
@@ -105,6 +109,8 @@ class VesselAssessment:
     dropout: Any = None
     """A mixture's liquid dropout at the coldest two-phase state of the range
     (assess.mixture_findings.Dropout), or None."""
+    marking: Any = None
+    """The cylinder's markings against its charge (assess.markings.MarkingResult), or None."""
 
     @property
     def margin_to_allowable(self) -> float:

@@ -167,10 +167,15 @@ def _margin_chart(vessels: list[VesselAssessment]) -> str:
 
 
 def _svg(fig) -> str:
-    """A finished figure as an inline SVG element (no XML declaration)."""
+    """A finished figure as an inline SVG element (no XML declaration), the same bytes for the
+    same figure."""
+    import matplotlib as mpl
+
     fig.tight_layout()
     buf = io.StringIO()
-    fig.savefig(buf, format="svg")
+    # reproducible: element ids from a fixed salt, no creation date (the record carries it)
+    with mpl.rc_context({"svg.hashsalt": "fillcheck"}):
+        fig.savefig(buf, format="svg", metadata={"Date": None})
     svg = buf.getvalue()
     start = svg.find("<svg")
     return svg[start:] if start >= 0 else svg

@@ -9,6 +9,7 @@ from dataclasses import dataclass
 
 from fillcheck import units
 from fillcheck.assess.result import Finding, VesselAssessment
+from fillcheck.report.wording import limits_checked
 
 ENTERED_LABELS = {
     "water_capacity": "water capacity",
@@ -22,10 +23,16 @@ ENTERED_LABELS = {
     "limits.allowable_pressure": "allowable pressure",
     "limits.relief_set_pressure": "relief set pressure",
     "limits.max_filling_ratio": "maximum filling ratio",
+    "limits.max_filling_density": "maximum filling density (of water at 60 °F)",
     "limits.min_vapour_space": "minimum vapour space",
     "limits.vapour_space_temperature": "vapour space at",
     "rules.set": "rule set",
     "rules.test_pressure": "test pressure",
+    "marking.working_pressure": "marked working pressure (15 °C)",
+    "marking.service_pressure": "marked service pressure (70 °F)",
+    "marking.allowance": "allowance over the marked pressure",
+    "marking.test_pressure": "marked test pressure",
+    "marking.tare_mass": "marked tare",
 }
 CLOSING_CAUTION = (
     "fillcheck computes what the gas does; it does not inspect the vessel. Its verdict covers "
@@ -34,7 +41,6 @@ CLOSING_CAUTION = (
 )
 VERDICT_WORD = {"pass": "PASS", "fail": "FAIL", "review": "REVIEW"}
 SEVERITY_ORDER = {"fail": 0, "review": 1, "warning": 2, "info": 3}
-SIGN_OFF = ("Prepared by", "Checked by", "Permit number", "Date")
 
 
 @dataclass(frozen=True)
@@ -82,9 +88,14 @@ def result_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
     rows = [("charge per vessel", fmt.m(v.charged_mass_kg))]
     if v.count > 1:
         rows.append((f"charge, {v.count} vessels", fmt.m(v.charged_mass_kg * v.count)))
-    density = units.format_density(v.density_kg_m3, s)
-    ratio = units.format_filling_ratio(v.density_kg_m3, s)
-    rows.append(("density (filling ratio)", f"{density} ({ratio})"))
+    if s == "us":
+        rows.append(
+            ("filling density (of water at 60 °F)", units.format_filling_density(v.density_kg_m3))
+        )
+    else:
+        density = units.format_density(v.density_kg_m3, s)
+        ratio = units.format_filling_ratio(v.density_kg_m3, s)
+        rows.append(("density (filling ratio)", f"{density} ({ratio})"))
     if v.fill_pressure_Pa is not None:
         rows.append((f"pressure at fill, {t(v.fill_temperature_K)}", p(v.fill_pressure_Pa)))
         rows.append(("Z at fill", f"{v.fill_Z:.4f}"))
@@ -113,10 +124,24 @@ def result_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
     rows.append(("liquid-full above", where(v.liquid_full_above_K)))
     rows.append(("allowable pressure reached at", t(v.allowable_reached_at_K)))
     rows.append(("relief set pressure reached at", t(v.relief_reached_at_K)))
+    r = v.marking
+    if (
+        r is not None
+        and r.settled_at_rated_Pa is not None
+        and abs(r.rated_temperature_K - v.reference_temperature_K) > 1e-6
+    ):
+        rows.append(
+            (
+                f"settled pressure at {t(r.rated_temperature_K)} (marked {r.rated_kind})",
+                p(r.settled_at_rated_Pa),
+            )
+        )
+    if r is not None and r.gross_mass_kg is not None:
+        rows.append(("gross mass (marked tare + charge)", fmt.m(r.gross_mass_kg)))
     if v.max_safe_charge_kg is not None:
         rows.append(
             (
-                "largest safe charge",
+                "largest charge within the limits",
                 f"{fmt.m_down(v.max_safe_charge_kg)} ({v.governing_limit} governs)",
             )
         )
@@ -148,6 +173,12 @@ def fill_plan(v: VesselAssessment, fmt: Formatter) -> str:
                 f"{t(v.fill_temperature_K)}"
             )
         out.append(s + f" ({v.governing_limit} governs).")
+        r = v.marking
+        if r is not None and r.max_safe_gross_mass_kg is not None:
+            out.append(
+                f"By weight: stop at a scale reading of {fmt.m(r.max_safe_gross_mass_kg)} "
+                f"(marked tare {fmt.m(r.tare_mass_kg)} + {fmt.m_down(v.max_safe_charge_kg)})."
+            )
     return " ".join(out)
 
 
@@ -156,9 +187,10 @@ def sorted_findings(v: VesselAssessment) -> list[Finding]:
     return sorted(v.findings, key=lambda f: SEVERITY_ORDER[f.severity])
 
 
-def verdict_sentence(v: VesselAssessment) -> str:
+def verdict_sentence(v: VesselAssessment, fmt: Formatter | None = None) -> str:
     """The verdict, always with the limits it covers, and for a fail what broke."""
-    checked = "; ".join(v.limits_checked)
+    fmt = fmt or Formatter("metric", units.STANDARD_ATMOSPHERE_Pa)
+    checked = "; ".join(limits_checked(v, fmt.system, fmt.atm))
     if v.verdict == "fail":
         broken = ", ".join(f.code for f in v.findings if f.severity == "fail")
         return f"Verdict: {v.id} FAILS ({broken}). Limits checked: {checked}."

@@ -20,7 +20,6 @@ from fillcheck.errors import InputError
 from fillcheck.report.chart import margin_chart_svg, vessel_chart_svg
 from fillcheck.report.content import (
     CLOSING_CAUTION,
-    SIGN_OFF,
     VERDICT_WORD,
     Formatter,
     entered_rows,
@@ -30,7 +29,9 @@ from fillcheck.report.content import (
     sorted_findings,
     verdict_sentence,
 )
+from fillcheck.report.permit_record import Record, sign_off_rows
 from fillcheck.report.terminal import header_rows, tally
+from fillcheck.report.wording import finding_message
 
 _CSS = """
 body { font-family: "DejaVu Sans", Arial, sans-serif; font-size: 10pt; color: #111;
@@ -68,7 +69,7 @@ def _table(rows: list[tuple[str, str]], numeric: bool = False) -> str:
 def _vessel(v: VesselAssessment, fmt: Formatter) -> str:
     findings = "".join(
         f'<tr><td class="sev-{f.severity}">{_e(f.severity.upper())}</td><td>{_e(f.code)}</td>'
-        f"<td>{_e(f.message)}</td></tr>"
+        f"<td>{_e(finding_message(f, fmt.system, fmt.atm))}</td></tr>"
         for f in sorted_findings(v)
     )
     chart = vessel_chart_svg(
@@ -84,7 +85,7 @@ def _vessel(v: VesselAssessment, fmt: Formatter) -> str:
         f'<p class="plan">{_e(fill_plan(v, fmt))}</p>'
         f'<div class="chart">{chart}</div>'
         f"<h3>Findings</h3><table>{findings}</table>"
-        f'<p class="verdict-line {v.verdict}"><b>{_e(verdict_sentence(v))}</b></p>'
+        f'<p class="verdict-line {v.verdict}"><b>{_e(verdict_sentence(v, fmt))}</b></p>'
         + (f"<h3>Cautions for this gas</h3><ul>{cautions}</ul>" if cautions else "")
         + "</section>"
     )
@@ -127,18 +128,24 @@ def _body(a: ScenarioAssessment, fmt: Formatter) -> str:
 
 
 def render_html(
-    a: ScenarioAssessment, system: units.UnitSystem = "metric", today: _dt.date | None = None
+    a: ScenarioAssessment,
+    system: units.UnitSystem = "metric",
+    today: _dt.date | None = None,
+    record: Record | None = None,
 ) -> str:
-    """The whole report as one HTML document."""
+    """The whole report as one HTML document (with the permit-file record where given)."""
     today = today or _dt.date.today()
     fmt = Formatter(system, a.atmospheric_pressure_Pa)
-    sign = "".join(f"<tr><td>{_e(label)}</td><td></td></tr>" for label in SIGN_OFF)
+    sign = "".join(
+        f"<tr><td>{_e(label)}</td><td>{_e(given)}</td></tr>"
+        for label, given in sign_off_rows(record)
+    )
     title = a.title or "(untitled)"
     return (
         '<!DOCTYPE html>\n<html lang="en"><head><meta charset="utf-8">'
         f"<title>fillcheck — {_e(title)}</title><style>{_CSS}</style></head><body>"
         "<h1>fillcheck — cylinder fill and storage check</h1>"
-        f"{_table(header_rows(a, system, today))}"
+        f"{_table(header_rows(a, system, today, record))}"
         + _body(a, fmt)
         + f'<h2>Overall verdict: <span class="verdict {a.verdict}">{VERDICT_WORD[a.verdict]}</span>'
         f"</h2><p>{_e(tally(a))}</p>"

@@ -6,7 +6,9 @@ import json
 from typing import Any
 
 from fillcheck import __version__
-from fillcheck.assess.result import EndState, ScenarioAssessment, VesselAssessment
+from fillcheck.assess.result import EndState, Finding, ScenarioAssessment, VesselAssessment
+from fillcheck.report.permit_record import Record, record_json
+from fillcheck.report.wording import finding_message, limits_checked
 
 
 def _end(e: EndState) -> dict[str, Any]:
@@ -18,7 +20,42 @@ def _end(e: EndState) -> dict[str, Any]:
     }
 
 
-def vessel_dict(v: VesselAssessment) -> dict[str, Any]:
+def _finding(f: Finding, atm: float) -> dict[str, Any]:
+    """A finding: code, severity, message, and its SI quantities where it is given as data."""
+    out: dict[str, Any] = {
+        "code": f.code,
+        "severity": f.severity,
+        "message": finding_message(f, "metric", atm),
+    }
+    if f.data is not None:
+        out["data"] = dict(f.data)
+    return out
+
+
+def _marking(v: VesselAssessment) -> dict[str, Any]:
+    """The keys a cylinder's markings add (INTERFACES.md §5); null without them."""
+    r = v.marking
+    gross = None if r is None else r.gross_mass_kg
+    safe = None if r is None else r.max_safe_gross_mass_kg
+    return {
+        "gross_mass_kg": gross,
+        "max_safe_gross_mass_kg": safe,
+        "marking": None
+        if r is None
+        else {
+            "rated": r.rated_kind,
+            "rated_pressure_Pa": r.rated_pressure_Pa,
+            "rated_temperature_K": r.rated_temperature_K,
+            "allowance": r.allowance,
+            "rated_limit_Pa": r.rated_limit_Pa,
+            "settled_pressure_at_rated_temperature_Pa": r.settled_at_rated_Pa,
+            "test_pressure_Pa": r.test_pressure_Pa,
+            "tare_mass_kg": r.tare_mass_kg,
+        },
+    }
+
+
+def vessel_dict(v: VesselAssessment, atm: float = 101325.0) -> dict[str, Any]:
     """One vessel as the JSON contract lays it out (plus documented extensions)."""
     return {
         "id": v.id,
@@ -53,10 +90,8 @@ def vessel_dict(v: VesselAssessment) -> dict[str, Any]:
             "margin_to_allowable": v.margin_to_allowable,
             "liquid_fraction_at_vapour_space_temperature": v.liquid_fraction_at_vapour_space_T,
         },
-        "limits_checked": v.limits_checked,
-        "findings": [
-            {"code": f.code, "severity": f.severity, "message": f.message} for f in v.findings
-        ],
+        "limits_checked": limits_checked(v, "metric", atm),
+        "findings": [_finding(f, atm) for f in v.findings],
         "cautions": v.cautions,
         "composition": v.composition,
         "liquid_dropout": None
@@ -68,22 +103,24 @@ def vessel_dict(v: VesselAssessment) -> dict[str, Any]:
             "liquid_volume_fraction": v.dropout.liquid_volume_fraction,
             "condensing_component": v.dropout.condensing,
         },
+        **_marking(v),
     }
 
 
-def scenario_dict(a: ScenarioAssessment) -> dict[str, Any]:
-    """The whole result."""
+def scenario_dict(a: ScenarioAssessment, record: Record | None = None) -> dict[str, Any]:
+    """The whole result (with the permit-file record's keys where given, INTERFACES.md §5)."""
     return {
         "fillcheck_version": __version__,
+        **({} if record is None else record_json(record)),
         "source": a.source,
         "title": a.title,
         "verdict": a.verdict,
         "reference_temperature_K": a.reference_temperature_K,
         "atmospheric_pressure_Pa": a.atmospheric_pressure_Pa,
-        "vessels": [vessel_dict(v) for v in a.vessels],
+        "vessels": [vessel_dict(v, a.atmospheric_pressure_Pa) for v in a.vessels],
     }
 
 
-def render_json(a: ScenarioAssessment) -> str:
+def render_json(a: ScenarioAssessment, record: Record | None = None) -> str:
     """The JSON text (indented, UTF-8 characters kept)."""
-    return json.dumps(scenario_dict(a), indent=2, ensure_ascii=False)
+    return json.dumps(scenario_dict(a, record), indent=2, ensure_ascii=False)

@@ -13,6 +13,7 @@ from rich.text import Text
 
 from fillcheck import __version__, units
 from fillcheck.assess.planning import Reading, StopTable
+from fillcheck.report.permit_record import Record, record_json, record_rows
 
 PLANNING_CAUTION = (
     "fillcheck computes what the gas does; it does not inspect the vessel. These figures are only "
@@ -21,8 +22,28 @@ PLANNING_CAUTION = (
 )
 
 
+def _head(console: Console, what: str, record: Record | None) -> None:
+    """The rule and the permit-file record's header of a planning printout."""
+    from fillcheck.report.terminal import print_header
+
+    console.print(Rule(Text(f"fillcheck {__version__} — {what}", style="bold")))
+    if record is not None:
+        print_header(console, record_rows(record))
+
+
+def _foot(console: Console, record: Record | None) -> None:
+    from fillcheck.report.terminal import print_sign_off
+
+    print_sign_off(console, record)
+    console.print(Text(PLANNING_CAUTION, style="italic"))
+
+
 def render_stop_tables(
-    tables: list[StopTable], console: Console, system: units.UnitSystem, atm: float
+    tables: list[StopTable],
+    console: Console,
+    system: units.UnitSystem,
+    atm: float,
+    record: Record | None = None,
 ) -> None:
     """Print one stop-fill table per vessel, made to hang at the filling station."""
 
@@ -32,7 +53,7 @@ def render_stop_tables(
     def t(x: float) -> str:
         return units.format_temperature(x, system)
 
-    console.print(Rule(Text(f"fillcheck {__version__} — stop-fill table", style="bold")))
+    _head(console, "stop-fill table", record)
     for st in tables:
         console.print(
             Text.assemble(
@@ -47,12 +68,14 @@ def render_stop_tables(
         )
         if st.max_safe_charge_kg is not None:
             plan = units.format_mass(st.max_safe_charge_kg, system, down=True)
-            console.print(f"Largest safe charge: {plan} ({st.governing_limit} governs).")
-            if st.target_charge_kg > st.max_safe_charge_kg:
+            console.print(
+                f"Largest charge within the limits: {plan} ({st.governing_limit} governs)."
+            )
+            if st.over_plan:
                 console.print(
                     Text(
-                        "The planned charge is ABOVE the largest safe charge: do not fill to this "
-                        "plan; use the right-hand column.",
+                        "The planned charge is ABOVE the largest charge within the limits: do "
+                        "not fill to this plan; use the right-hand column.",
                         style="bold red",
                     )
                 )
@@ -67,7 +90,7 @@ def render_stop_tables(
         table.add_column("gas temperature", justify="right")
         table.add_column("stop the fill at", justify="right")
         table.add_column("phase")
-        table.add_column("never above (largest safe charge)", justify="right")
+        table.add_column("never above (largest charge)", justify="right")
         for r in st.rows:
             weigh = r.weigh or r.phase in ("two-phase", "liquid")
             shown = "weigh the fill" if weigh else p(r.stop_pressure_Pa)
@@ -97,14 +120,20 @@ def render_stop_tables(
                     style="bold",
                 )
             )
-    console.print(Text(PLANNING_CAUTION, style="italic"))
+    _foot(console, record)
 
 
-def render_reading(r: Reading, console: Console, system: units.UnitSystem, atm: float) -> None:
+def render_reading(
+    r: Reading,
+    console: Console,
+    system: units.UnitSystem,
+    atm: float,
+    record: Record | None = None,
+) -> None:
     """Print what a gauge reading means for the vessel."""
     p = lambda x: units.format_pressure(x, system, atmospheric_pressure_Pa=atm)  # noqa: E731
     t = lambda x: units.format_temperature(x, system)  # noqa: E731
-    console.print(Rule(Text(f"fillcheck {__version__} — gauge reading", style="bold")))
+    _head(console, "gauge reading", record)
     console.print(
         f"Vessel {r.vessel_id} ({r.gas}, model {r.model}): {p(r.measured_pressure_Pa)} with the "
         f"gas at {t(r.gas_temperature_K)} ({r.phase}) means a charge of "
@@ -119,29 +148,38 @@ def render_reading(r: Reading, console: Console, system: units.UnitSystem, atm: 
     )
     line = f"That is {r.fraction_of_target:.1%} of the planned charge"
     if r.fraction_of_max_safe is not None:
-        line += f" and {r.fraction_of_max_safe:.1%} of the largest safe charge"
+        line += f" and {r.fraction_of_max_safe:.1%} of the largest charge within the limits"
     console.print(line + ".")
     if r.fraction_of_max_safe is not None and r.fraction_of_max_safe > 1.0:
         console.print(
-            Text("Above the largest safe charge: do not store it this full.", style="bold red")
+            Text(
+                "Above the largest charge within the limits: do not store it this full.",
+                style="bold red",
+            )
         )
     elif r.may_exceed_plan:
         console.print(
             Text(
                 "Within the gauge's and the thermometer's errors the charge may be over the "
-                "largest safe charge: weigh it before storing it.",
+                "largest charge within the limits: weigh it before storing it.",
                 style="bold red",
             )
         )
     console.print(f"Model: {r.model_name} ({r.model}); {r.model_source}")
-    console.print(Text(PLANNING_CAUTION, style="italic"))
+    _foot(console, record)
 
 
-def planning_json(obj: list[StopTable] | Reading) -> str:
+def planning_json(obj: list[StopTable] | Reading, record: Record | None = None) -> str:
     """JSON of a stop-fill table list or a reading (SI units, pressures absolute)."""
     body: Any = (
         [dataclasses.asdict(x) for x in obj] if isinstance(obj, list) else dataclasses.asdict(obj)
     )
     return json.dumps(
-        {"fillcheck_version": __version__, "result": body}, indent=2, ensure_ascii=False
+        {
+            "fillcheck_version": __version__,
+            **({} if record is None else record_json(record)),
+            "result": body,
+        },
+        indent=2,
+        ensure_ascii=False,
     )

@@ -15,7 +15,6 @@ from fillcheck.assess.result import ScenarioAssessment, VesselAssessment
 from fillcheck.report.content import (
     CLOSING_CAUTION,
     DETAIL_LIMIT,
-    SIGN_OFF,
     VERDICT_WORD,
     Formatter,
     entered_rows,
@@ -25,6 +24,8 @@ from fillcheck.report.content import (
     sorted_findings,
     verdict_sentence,
 )
+from fillcheck.report.permit_record import Record, record_rows, sign_off_rows
+from fillcheck.report.wording import finding_message
 
 _VERDICT_STYLE = {"pass": "bold green", "fail": "bold red", "review": "bold yellow"}
 _SEVERITY_STYLE = {"fail": "red", "review": "yellow", "warning": "magenta", "info": "dim"}
@@ -60,10 +61,12 @@ def _vessel_block(v: VesselAssessment, fmt: Formatter) -> Group:
     findings.add_column(ratio=1)
     for f in sorted_findings(v):
         findings.add_row(
-            Text(f.severity.upper(), style=_SEVERITY_STYLE[f.severity]), f.code, f.message
+            Text(f.severity.upper(), style=_SEVERITY_STYLE[f.severity]),
+            f.code,
+            finding_message(f, fmt.system, fmt.atm),
         )
     parts: list = [head, entered, res, Text(fill_plan(v, fmt), style="bold"), findings]
-    parts.append(Text(verdict_sentence(v), style=_VERDICT_STYLE[v.verdict]))
+    parts.append(Text(verdict_sentence(v, fmt), style=_VERDICT_STYLE[v.verdict]))
     if v.cautions:
         parts.append(Text("Cautions for this gas:", style="bold"))
         parts.extend(Text(f"  • {c}") for c in v.cautions)
@@ -75,17 +78,13 @@ def render_terminal(
     console: Console,
     system: units.UnitSystem = "metric",
     today: _dt.date | None = None,
+    record: Record | None = None,
 ) -> None:
-    """Print the report of a whole scenario."""
+    """Print the report of a whole scenario (with the permit-file record where given)."""
     today = today or _dt.date.today()
     fmt = Formatter(system, a.atmospheric_pressure_Pa)
     console.print(Rule(Text("fillcheck — cylinder fill and storage check", style="bold")))
-    meta = Table.grid(padding=(0, 2))
-    meta.add_column(style="dim")
-    meta.add_column()
-    for row in header_rows(a, system, today):
-        meta.add_row(*row)
-    console.print(meta)
+    print_header(console, header_rows(a, system, today, record))
     shown = a.vessels
     if a.is_register:
         summary = register_summary(a.vessels)
@@ -119,24 +118,49 @@ def render_terminal(
         console.print(_vessel_block(v, fmt))
     console.print(Rule())
     console.print(Text.assemble("Overall verdict: ", _verdict_text(a.verdict), f"   ({tally(a)})"))
-    sign = Table(show_header=False, box=None, padding=(0, 1))
-    sign.add_column()
-    sign.add_column()
-    for label in SIGN_OFF:
-        sign.add_row(f"{label}:", "_" * 34)
-    console.print(Panel(sign, title="Sign-off", title_align="left", expand=False))
+    print_sign_off(console, record)
     console.print(Text(CLOSING_CAUTION, style="italic"))
 
 
+def print_header(console: Console, rows: list[tuple[str, str]]) -> None:
+    """The title block: label and value rows."""
+    meta = Table.grid(padding=(0, 2))
+    meta.add_column(style="dim")
+    meta.add_column()
+    for row in rows:
+        meta.add_row(*row)
+    console.print(meta)
+
+
+def print_sign_off(console: Console, record: Record | None) -> None:
+    """The sign-off block, with the prepared-by and permit number the scenario gives."""
+    sign = Table(show_header=False, box=None, padding=(0, 1))
+    sign.add_column()
+    sign.add_column()
+    for label, given in sign_off_rows(record):
+        sign.add_row(f"{label}:", given or "_" * 34)
+    console.print(Panel(sign, title="Sign-off", title_align="left", expand=False))
+
+
 def header_rows(
-    a: ScenarioAssessment, system: units.UnitSystem, today: _dt.date
+    a: ScenarioAssessment,
+    system: units.UnitSystem,
+    today: _dt.date,
+    record: Record | None = None,
 ) -> list[tuple[str, str]]:
-    """Title block rows: scenario, file, date, tool, units, atmospheric pressure."""
+    """Title block rows: scenario, the record (report id, time, input and its digest, tool,
+    gas data, site, permit, preparer; without a record: file and date), units, atmosphere."""
+    if record is not None:
+        said = record_rows(record)
+    else:
+        said = [
+            ("file", a.source),
+            ("date", today.isoformat()),
+            ("tool", f"fillcheck {__version__}"),
+        ]
     return [
         ("scenario", a.title or "(untitled)"),
-        ("file", a.source),
-        ("date", today.isoformat()),
-        ("tool", f"fillcheck {__version__}"),
+        *said,
         (
             "units",
             "metric (barg = gauge, bara = absolute)"

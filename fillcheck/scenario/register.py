@@ -1,4 +1,4 @@
-"""A register of vessels (CSV): one vessel a row, the columns of INTERFACES.md §2.
+"""A register of vessels (CSV): one vessel a row, the columns of INTERFACES.md §2 and §5.
 
 Cells are the same quantity strings as in a scenario file; an empty cell is an absent value; an
 unknown column is refused by name; errors name the row and the column. A mixture's gas cell
@@ -9,6 +9,7 @@ lists its gases with their mole fractions joined by "+", e.g.
 from __future__ import annotations
 
 import csv
+import dataclasses
 import io
 import re
 from pathlib import Path
@@ -16,7 +17,7 @@ from pathlib import Path
 from fillcheck.errors import InputError
 from fillcheck.scenario.bounds import TEXT_CHARS_MAX
 from fillcheck.scenario.resolve import Scenario, scenario_from_dict
-from fillcheck.scenario.source import read_input
+from fillcheck.scenario.source import read_input_with_digest
 from fillcheck.scenario.text import neutralise
 
 COLUMNS: dict[str, str] = {
@@ -33,6 +34,11 @@ COLUMNS: dict[str, str] = {
     "allowable_pressure": "limits.allowable_pressure",
     "relief_set_pressure": "limits.relief_set_pressure",
     "max_filling_ratio": "limits.max_filling_ratio",
+    "max_filling_density": "limits.max_filling_density",
+    "working_pressure": "marking.working_pressure",
+    "service_pressure": "marking.service_pressure",
+    "test_pressure": "marking.test_pressure",
+    "tare_mass": "marking.tare_mass",
 }
 """Register column -> scenario field path."""
 REQUIRED = ("id", "gas", "water_capacity", "max_temperature", "allowable_pressure")
@@ -43,14 +49,14 @@ FIELDS = {v: k for k, v in COLUMNS.items()}
 def load_register(path: str | Path, title: str | None = None) -> Scenario:
     """Read and validate a CSV register of vessels."""
     p = Path(path)
-    text = read_input(path, "register (.csv)", "save the register as UTF-8 CSV")
-    return register_from_text(text, p.name, title)
+    text, digest = read_input_with_digest(path, "register (.csv)", "save the register as UTF-8 CSV")
+    return dataclasses.replace(register_from_text(text, p.name, title), input_sha256=digest)
 
 
 def read_rows(path: str | Path) -> list[list[str]]:
     """The rows of a CSV register (header first), cells stripped and neutralised, not yet
     validated: for streaming the register a chunk at a time (fillcheck.records)."""
-    text = read_input(path, "register (.csv)", "save the register as UTF-8 CSV")
+    text, _ = read_input_with_digest(path, "register (.csv)", "save the register as UTF-8 CSV")
     return _rows(text.lstrip("\ufeff"), Path(path).name)
 
 

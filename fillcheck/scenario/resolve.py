@@ -9,6 +9,7 @@ vessel and the field, says what is wrong and what would be right, e.g.::
 
 from __future__ import annotations
 
+import dataclasses
 import difflib
 import math
 import re
@@ -25,8 +26,9 @@ from fillcheck.errors import InputError
 from fillcheck.fluids.catalog import FluidData, lookup, user_fluid
 from fillcheck.models.registry import has_reference_equation
 from fillcheck.scenario import bounds
+from fillcheck.scenario.markings import Marking, resolve_marking
 from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
-from fillcheck.scenario.source import read_input
+from fillcheck.scenario.source import read_input_with_digest
 from fillcheck.scenario.text import neutralise
 from fillcheck.thermo.fluid import Fluid
 from fillcheck.thermo.limits import highest_temperature_K
@@ -87,6 +89,8 @@ class VesselInput:
     notes: tuple[str, ...] = ()
     """Notes on how the input was read (a mixture's composition normalised, volume % read as
     mole %), shown on the report."""
+    marking: Marking | None = None
+    """What is stamped on the cylinder (scenario.markings), or None."""
 
 
 @dataclass(frozen=True)
@@ -98,12 +102,26 @@ class Scenario:
     reference_temperature_K: float
     atmospheric_pressure_Pa: float
     vessels: tuple[VesselInput, ...]
+    site: str | None = None
+    """Where the vessels are filled or stored, for the record (optional)."""
+    permit_number: str | None = None
+    """The work permit the check belongs to (optional)."""
+    prepared_by: str | None = None
+    """Who prepared the check (optional)."""
+    input_sha256: str | None = None
+    """Hex SHA-256 of the input file's bytes as read (None for a scenario not read from a
+    file)."""
+    units: str = "metric"
+    """The unit system the report uses unless the command line says otherwise: the scenario's
+    ``units``, else "us" for a file whose every quantity is in US units, else "metric"."""
 
 
 def load_scenario(path: str | Path) -> Scenario:
     """Read and validate a TOML scenario file."""
     name = Path(path).name
-    text = read_input(path, "scenario (.toml)", "save the scenario as UTF-8 TOML")
+    text, digest = read_input_with_digest(
+        path, "scenario (.toml)", "save the scenario as UTF-8 TOML"
+    )
     if not text.strip():
         raise InputError(f"{name}: is empty; a scenario needs at least one [[vessel]] table")
     try:
@@ -121,7 +139,7 @@ def load_scenario(path: str | Path) -> Scenario:
         raise InputError(
             f"{name}: is not valid TOML ({exc}); check the numbers in the file"
         ) from None
-    return scenario_from_dict(raw, name)
+    return dataclasses.replace(scenario_from_dict(raw, name), input_sha256=digest)
 
 
 def scenario_from_dict(
@@ -179,7 +197,41 @@ def scenario_from_dict(
             raise w.fail("id", "the id is used twice; give every vessel its own id")
         seen.add(vid)
         vessels.append(_vessel(v, w, P_atm, user_gases, fluids, T_ref))
-    return Scenario(name, spec.title, T_ref, P_atm, tuple(vessels))
+    return Scenario(
+        name,
+        spec.title,
+        T_ref,
+        P_atm,
+        tuple(vessels),
+        spec.site,
+        None if spec.permit_number is None else str(spec.permit_number),
+        spec.prepared_by,
+        units=spec.units or preferred_units(vessels, raw if isinstance(raw, dict) else {}),
+    )
+
+
+_US_UNIT_RE = re.compile(
+    r"(psi[ga]?|psi ?\(?[ga]\)?|°f|degf|deg f|fahrenheit|lbs?|gal|usgal|us gal|ft3|ft\^3|ft³|"
+    r"cu ft)$",
+    re.IGNORECASE,
+)
+_NUMBER_ONLY_RE = re.compile(r"^[\s+\-0-9.eE]*(%|percent|ppm)?\s*$", re.IGNORECASE)
+
+
+def preferred_units(vessels: Any, raw: dict[str, Any]) -> str:
+    """ "us" where every quantity the user wrote (fractions aside) is in a US unit (psig, psia,
+    °F, lb, gal, ft³), else "metric"."""
+    texts = [t for v in vessels for t in v.entered.values()]
+    texts += [str(raw[k]) for k in ("reference_temperature", "atmospheric_pressure") if k in raw]
+    quantities = [
+        t.strip()
+        for t in texts
+        if isinstance(t, str)
+        and t.strip()[:1] not in ("", *"abcdefghijklmnopqrstuvwxyz")
+        and not _NUMBER_ONLY_RE.match(t)
+    ]
+    us = bool(quantities) and all(_US_UNIT_RE.search(t) for t in quantities)
+    return "us" if us else "metric"
 
 
 class _Where:
@@ -457,7 +509,7 @@ def _vessel(
 ) -> VesselInput:
     fluid, note, notes = _fluid_for(v, where, user_gases, fluids)
     entered: dict[str, str] = {"water_capacity": v.water_capacity}
-    V = where.run("water_capacity", units.parse_volume, v.water_capacity)
+    V = where.run("water_capacity", _water_capacity, v.water_capacity)
     if V <= 0:
         raise where.fail("water_capacity", f"'{v.water_capacity}' must be larger than zero")
     if not bounds.WATER_CAPACITY_MIN_m3 <= V <= bounds.WATER_CAPACITY_MAX_m3:
@@ -545,7 +597,8 @@ def _vessel(
                 f"below the maximum '{v.storage.max_temperature}'",
             )
     limits = _limits(v, where, P_atm, fluid, entered)
-    rules = _rules(v, where, P_atm, fluid, entered)
+    marking = resolve_marking(v.marking, where, P_atm, entered)
+    rules = _rules(v, where, P_atm, fluid, entered, marking)
     return VesselInput(
         str(v.id),
         fluid,
@@ -562,7 +615,23 @@ def _vessel(
         P_atm,
         rules,
         notes,
+        marking,
     )
+
+
+def _water_capacity(text: str) -> float:
+    """A water capacity [m³]: a volume, or the weight of water the vessel holds in lb, as US
+    cylinders are stamped (``"96.5 lb"``: that mass of water at 60 °F,
+    units.WATER_DENSITY_60F_kg_m3)."""
+    try:
+        return units.parse_volume(text)
+    except InputError as as_volume:
+        if not re.search(r"\d\s*lbs?\s*$", text, re.IGNORECASE):
+            raise  # a mass in kg is a typing error here, not a US stamp
+        try:
+            return units.parse_mass(text) / units.WATER_DENSITY_60F_kg_m3
+        except InputError:
+            raise as_volume from None
 
 
 def _refuse_liquefied_pressure_fill(
@@ -603,7 +672,12 @@ RULE_CLASSES = {
 
 
 def _rules(
-    v: VesselSpec, where: _Where, P_atm: float, fluid: Fluid, entered: dict[str, str]
+    v: VesselSpec,
+    where: _Where,
+    P_atm: float,
+    fluid: Fluid,
+    entered: dict[str, str],
+    marking: Marking | None = None,
 ) -> Rules | None:
     if v.rules is None:
         return None
@@ -615,8 +689,25 @@ def _rules(
             "enter the limits the code gives for the mixture",
         )
     entered["rules.set"] = v.rules.set
-    entered["rules.test_pressure"] = v.rules.test_pressure
-    P = where.pressure("rules.test_pressure", v.rules.test_pressure, P_atm)
+    marked = None if marking is None else marking.test_pressure_Pa
+    if v.rules.test_pressure is None:
+        if marked is None:
+            raise where.fail(
+                "rules.test_pressure",
+                "is required unless the cylinder's marking gives it; add "
+                'test_pressure = "300 barg" to [rules] or to marking',
+            )
+        P = marked
+    else:
+        entered["rules.test_pressure"] = v.rules.test_pressure
+        P = where.pressure("rules.test_pressure", v.rules.test_pressure, P_atm)
+        if marked is not None and abs(P - marked) > 1e-9 * marked:
+            raise where.fail(
+                "rules.test_pressure",
+                f"'{v.rules.test_pressure}' differs from marking.test_pressure "
+                f"'{entered['marking.test_pressure']}'; "
+                "give the test pressure once, as marked on the cylinder",
+            )
     lo, hi, words = RULE_CLASSES[v.rules.set]
     Tc = fluid.model_critical[0]
     if (lo is not None and Tc < lo) or (hi is not None and Tc >= hi):
@@ -672,6 +763,20 @@ def _limits(
         entered["limits.relief_set_pressure"] = lim.relief_set_pressure
         relief = where.pressure("limits.relief_set_pressure", lim.relief_set_pressure, P_atm)
     fr = None
+    if lim.max_filling_ratio is not None and lim.max_filling_density is not None:
+        raise where.fail(
+            "limits.max_filling_density",
+            "states the same limit as max_filling_ratio; give one of them",
+        )
+    if lim.max_filling_density is not None:
+        entered["limits.max_filling_density"] = str(lim.max_filling_density)
+        pct = where.run("limits.max_filling_density", units.parse_fraction, lim.max_filling_density)
+        if pct <= 0:
+            raise where.fail(
+                "limits.max_filling_density",
+                f"'{lim.max_filling_density}' must be larger than zero, e.g. \"68 %\"",
+            )
+        fr = pct * units.WATER_DENSITY_60F_kg_m3
     if lim.max_filling_ratio is not None:
         entered["limits.max_filling_ratio"] = lim.max_filling_ratio
         fr = where.run("limits.max_filling_ratio", units.parse_filling_ratio, lim.max_filling_ratio)
@@ -863,6 +968,8 @@ def _known_keys(loc: list[Any]) -> list[str]:
             "fill": schema.FillSpec,
             "storage": schema.StorageSpec,
             "limits": schema.LimitsSpec,
+            "rules": schema.RulesSpec,
+            "marking": schema.MarkingSpec,
         }.get(p)
         if sub is None:
             return []

@@ -42,6 +42,9 @@ class LimitsSpec(_Strict):
     allowable_pressure: Quantity
     relief_set_pressure: Quantity | None = None
     max_filling_ratio: Quantity | None = None
+    max_filling_density: Quantity | StrictFloat | StrictInt | None = None
+    """A US filling density: the charge as a percentage of the weight of water the vessel holds
+    at 60 °F, e.g. "68 %" (instead of max_filling_ratio)."""
     min_vapour_space: Quantity | StrictFloat | StrictInt | None = None
     vapour_space_temperature: Quantity | None = None
 
@@ -50,7 +53,18 @@ class RulesSpec(_Strict):
     """A named example rule set and the vessel's test pressure (see assess.rules)."""
 
     set: Literal["p200-compressed", "p200-high-pressure-liquefied", "p200-low-pressure-liquefied"]
-    test_pressure: Quantity
+    test_pressure: Quantity | None = None
+    """Optional where the vessel's ``marking`` gives ``test_pressure``."""
+
+
+class MarkingSpec(_Strict):
+    """What is stamped on the cylinder (INTERFACES.md §5); every key optional."""
+
+    working_pressure: Quantity | None = None
+    service_pressure: Quantity | None = None
+    allowance: Quantity | StrictFloat | StrictInt | None = None
+    test_pressure: Quantity | None = None
+    tare_mass: Quantity | None = None
 
 
 class GasSpec(_Strict):
@@ -81,12 +95,17 @@ class VesselSpec(_Strict):
     storage: StorageSpec
     limits: LimitsSpec
     rules: RulesSpec | None = None
+    marking: MarkingSpec | None = None
 
 
 class ScenarioSpec(_Strict):
     """A whole scenario file."""
 
     title: StrictStr | None = None
+    site: StrictStr | None = None
+    permit_number: StrictStr | StrictInt | None = None
+    prepared_by: StrictStr | None = None
+    units: Literal["metric", "us"] | None = None
     reference_temperature: Quantity = "15 degC"
     atmospheric_pressure: Quantity = "101.325 kPa absolute"
     gas: list[GasSpec] = Field(default_factory=list)

@@ -7,6 +7,7 @@ path can neither hang the command nor exhaust memory.
 
 from __future__ import annotations
 
+import hashlib
 import os
 import stat
 from pathlib import Path
@@ -19,6 +20,11 @@ _FLAGS |= getattr(os, "O_BINARY", 0)
 
 
 def read_input(path: str | Path, what: str, save_as: str) -> str:
+    """The text of an input file (see :func:`read_input_with_digest`)."""
+    return read_input_with_digest(path, what, save_as)[0]
+
+
+def read_input_with_digest(path: str | Path, what: str, save_as: str) -> tuple[str, str]:
     """The text of the input file at ``path``, or an InputError naming it.
 
     Parameters
@@ -32,8 +38,9 @@ def read_input(path: str | Path, what: str, save_as: str) -> str:
 
     Returns
     -------
-    str
-        The decoded text, without a leading byte-order mark.
+    (str, str)
+        The decoded text, without a leading byte-order mark, and the hex SHA-256 of the bytes
+        read (the record of the input, report.permit_record).
     """
     p = Path(path)
     give = f"give the path of a {what} file"
@@ -71,7 +78,7 @@ def read_input(path: str | Path, what: str, save_as: str) -> str:
         text = data.decode("utf-8")
     except UnicodeDecodeError:
         raise InputError(f"{p.name}: is not a UTF-8 text file; {save_as}") from None
-    return text.lstrip("\ufeff")
+    return text.lstrip("\ufeff"), hashlib.sha256(data).hexdigest()
 
 
 def _too_large(p: Path, what: str) -> InputError:
