@@ -318,8 +318,10 @@ def permanent_cases(draw: st.DrawFn) -> Case:
 
 
 @st.composite
-def liquefied_cases(draw: st.DrawFn) -> Case:
-    """A liquefied gas filled by weight (mass or filling ratio), or as a gas by pressure."""
+def liquefied_cases(draw: st.DrawFn, allow_k: tuple[float, float] = (0.6, 4.0)) -> Case:
+    """A liquefied gas filled by weight (mass or filling ratio), or as a gas by pressure, with an
+    allowable pressure of ``allow_k`` times the vapour pressure at the top of the range (below
+    Tc; at Tc − 0.5 K above it)."""
     gas = draw(st.sampled_from(LIQUEFIED))
     f = _public_fluid(gas)
     Tc = f.critical.T
@@ -340,7 +342,7 @@ def liquefied_cases(draw: st.DrawFn) -> Case:
         rho = value / V if kind == "mass" else value
     T_top = max(T_max, T_fill or T_max)
     psat_top = float(f.saturation(T=min(T_top, Tc - 0.5)).P)
-    allow = draw(st.floats(0.6, 4.0)) * psat_top
+    allow = draw(st.floats(*allow_k)) * psat_top
     allow = _round_P(min(max(allow, ATM + 1e5), 1500e5))
     c = Case(gas, {}, T_ref, T_fill, T_min, T_max, kind, value, V, allow, ref_text=ref_text)
     _limits(draw, c, rho, rho_l15)
@@ -405,7 +407,10 @@ def _limits(draw: st.DrawFn, c: Case, rho: float, rho_liquid: float | None = Non
 
 
 def any_case() -> st.SearchStrategy[Case]:
-    return st.one_of(permanent_cases(), liquefied_cases())
+    """Permanent and liquefied gases; one draw in three a liquefied gas whose allowable pressure
+    lies within −10…+15 % of its vapour pressure at the top of the range, where the plan once
+    jumped between the liquid and the vapour branch (issue 11, point 3)."""
+    return st.one_of(permanent_cases(), liquefied_cases(), liquefied_cases(allow_k=(0.9, 1.15)))
 
 
 def assessed(c: Case) -> VesselAssessment:
