@@ -363,10 +363,11 @@ MIXTURES = (
 
 
 @st.composite
-def mixture_cases(draw: st.DrawFn) -> Case:
-    """A binary mixture: a compressed gas mixture filled by pressure or a liquefied blend by
-    weight."""
-    (a, b), (lo, hi), liquefied = draw(st.sampled_from(MIXTURES))
+def mixture_cases(draw: st.DrawFn, blends: bool = True) -> Case:
+    """A binary mixture: a compressed gas mixture filled by pressure or (with ``blends``) a
+    liquefied blend by weight. A liquefied blend's check costs up to ten seconds (a stability
+    test at every two-phase state), so the default run leaves blends to the slow sweep."""
+    (a, b), (lo, hi), liquefied = draw(st.sampled_from(MIXTURES if blends else MIXTURES[:2]))
     x = round(draw(st.floats(lo, hi)), 3)
     gas = {a: round(1.0 - x, 3), b: x}
     f = _public_fluid(gas)
@@ -732,27 +733,27 @@ def _steps() -> st.SearchStrategy[list[float]]:
 
 
 # (a) PASS is safe on an independent grid
-@_default(150)
+@_default(100)
 @given(any_case())
 def test_pass_is_safe(c: Case) -> None:
     check_pass_is_safe(c)
 
 
 @_default(3)
-@given(mixture_cases())
+@given(mixture_cases(blends=False))
 def test_pass_is_safe_mixtures(c: Case) -> None:
     check_pass_is_safe(c)
 
 
 # (b) the plan, followed by weight, passes
-@_default(100)
+@_default(60)
 @given(any_case())
 def test_plan_passes(c: Case) -> None:
     check_plan_passes(c)
 
 
 @_default(2)
-@given(mixture_cases())
+@given(mixture_cases(blends=False))
 def test_plan_passes_mixtures(c: Case) -> None:
     check_plan_passes(c)
 
