@@ -759,7 +759,7 @@ def test_plan_passes_mixtures(c: Case) -> None:
 
 
 # (c) the plan never shrinks when a limit is loosened or the top temperature lowered
-@_default(60)
+@_default(40)
 @given(any_case(), loosenings())
 def test_plan_monotone(c: Case, k: dict[str, float]) -> None:
     check_plan_monotone(c, k)
