@@ -105,6 +105,8 @@ class VesselAssessment:
     dropout: Any = None
     """A mixture's liquid dropout at the coldest two-phase state of the range
     (assess.mixture_findings.Dropout), or None."""
+    filling: Any = None
+    """The fill process (assess.fill_process.FillResult) where ``[vessel.filling]`` is given."""
 
     @property
     def margin_to_allowable(self) -> float:

@@ -25,6 +25,7 @@ from fillcheck.errors import InputError
 from fillcheck.fluids.catalog import FluidData, lookup, user_fluid
 from fillcheck.models.registry import has_reference_equation
 from fillcheck.scenario import bounds
+from fillcheck.scenario.filling_input import FillingInput, resolve_filling
 from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
 from fillcheck.scenario.source import read_input
 from fillcheck.scenario.text import neutralise
@@ -87,6 +88,8 @@ class VesselInput:
     notes: tuple[str, ...] = ()
     """Notes on how the input was read (a mixture's composition normalised, volume % read as
     mole %), shown on the report."""
+    filling: FillingInput | None = None
+    """How the fill is made (``[vessel.filling]``), or None."""
 
 
 @dataclass(frozen=True)
@@ -543,6 +546,15 @@ def _vessel(
             )
     limits = _limits(v, where, P_atm, fluid, entered)
     rules = _rules(v, where, P_atm, fluid, entered)
+    filling = resolve_filling(
+        v.filling,
+        v.limits.max_fill_temperature,
+        where,
+        P_atm,
+        T_ref,
+        lambda text, fld: _temperature(text, fld, where, fluid),
+        entered,
+    )
     return VesselInput(
         str(v.id),
         fluid,
@@ -559,6 +571,7 @@ def _vessel(
         P_atm,
         rules,
         notes,
+        filling,
     )
 
 

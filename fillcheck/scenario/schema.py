@@ -11,6 +11,8 @@ from typing import Literal
 
 from pydantic import BaseModel, ConfigDict, Field, StrictFloat, StrictInt, StrictStr
 
+from fillcheck.scenario.filling_input import FillingSpec
+
 Quantity = StrictStr
 """A number with a unit, e.g. ``"200 barg"``."""
 
@@ -44,6 +46,8 @@ class LimitsSpec(_Strict):
     max_filling_ratio: Quantity | None = None
     min_vapour_space: Quantity | StrictFloat | StrictInt | None = None
     vapour_space_temperature: Quantity | None = None
+    max_fill_temperature: Quantity | None = None
+    """The peak gas temperature the fill must not pass (needs ``[vessel.filling]``)."""
 
 
 class RulesSpec(_Strict):
@@ -81,6 +85,8 @@ class VesselSpec(_Strict):
     storage: StorageSpec
     limits: LimitsSpec
     rules: RulesSpec | None = None
+    filling: FillingSpec | None = None
+    """How the fill is made (scenario.filling_input): the fill process, INTERFACES.md §6."""
 
 
 class ScenarioSpec(_Strict):
