@@ -7,6 +7,7 @@ from typing import Any
 
 from fillcheck import __version__
 from fillcheck.assess.result import EndState, ScenarioAssessment, VesselAssessment
+from fillcheck.report.fill_section import filling_dict
 
 
 def _end(e: EndState) -> dict[str, Any]:
@@ -68,6 +69,7 @@ def vessel_dict(v: VesselAssessment) -> dict[str, Any]:
             "liquid_volume_fraction": v.dropout.liquid_volume_fraction,
             "condensing_component": v.dropout.condensing,
         },
+        "filling": filling_dict(v),
     }
 
 

@@ -25,6 +25,7 @@ from fillcheck.report.content import (
     sorted_findings,
     verdict_sentence,
 )
+from fillcheck.report.fill_section import filling_curve_rows, filling_rows
 
 _VERDICT_STYLE = {"pass": "bold green", "fail": "bold red", "review": "bold yellow"}
 _SEVERITY_STYLE = {"fail": "red", "review": "yellow", "warning": "magenta", "info": "dim"}
@@ -62,12 +63,27 @@ def _vessel_block(v: VesselAssessment, fmt: Formatter) -> Group:
         findings.add_row(
             Text(f.severity.upper(), style=_SEVERITY_STYLE[f.severity]), f.code, f.message
         )
-    parts: list = [head, entered, res, Text(fill_plan(v, fmt), style="bold"), findings]
+    parts: list = [head, entered, res]
+    if v.filling is not None:  # the fill process (report.fill_section)
+        parts.append(_filling_table(v, fmt))
+    parts += [Text(fill_plan(v, fmt), style="bold"), findings]
     parts.append(Text(verdict_sentence(v), style=_VERDICT_STYLE[v.verdict]))
     if v.cautions:
         parts.append(Text("Cautions for this gas:", style="bold"))
         parts.extend(Text(f"  • {c}") for c in v.cautions)
     return Group(*parts)
+
+
+def _filling_table(v: VesselAssessment, fmt: Formatter) -> Table:
+    t = Table(title="Fill process", title_justify="left", show_edge=False, expand=False)
+    t.add_column("quantity")
+    t.add_column("value", justify="right")
+    for row in filling_rows(v, fmt):
+        t.add_row(*row)
+    curve = filling_curve_rows(v, fmt)
+    if curve:
+        t.add_row("curve (time, gas, pressure)", "; ".join(" ".join(c) for c in curve))
+    return t
 
 
 def render_terminal(

@@ -1,0 +1,110 @@
+"""The fill process on the reports: rows for the terminal and HTML, and the JSON ``filling`` key.
+
+Renders an :class:`fillcheck.assess.fill_process.FillResult`; computes nothing.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+import numpy as np
+
+from fillcheck.assess.fill_process import CURVE_POINTS_SHOWN
+from fillcheck.assess.result import VesselAssessment
+from fillcheck.report.content import Formatter
+
+ENTERED_FILLING_LABELS = {
+    "filling.supply.pressure": "supply pressure",
+    "filling.supply.temperature": "supply temperature",
+    "filling.compressor.delivery_temperature": "compressor delivery temperature",
+    "filling.start.pressure": "residual pressure at start",
+    "filling.start.temperature": "residual gas temperature",
+    "filling.duration": "fill duration",
+    "filling.ambient_temperature": "ambient temperature",
+    "filling.wall.mass": "wall mass",
+    "filling.wall.specific_heat": "wall specific heat",
+    "filling.wall.material": "wall material",
+    "filling.heat_transfer": "heat transfer",
+    "filling.heat_transfer.coefficient": "gas-wall coefficient",
+    "filling.heat_transfer.area": "heat-transfer area",
+    "filling.heat_transfer.ambient_coefficient": "wall-ambient coefficient",
+    "limits.max_fill_temperature": "peak gas temperature limit",
+}
+
+
+def _shown_indices(n: int) -> np.ndarray:
+    return np.unique(np.linspace(0, n - 1, min(n, CURVE_POINTS_SHOWN)).round().astype(int))
+
+
+def filling_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
+    """The fill-process table: what was entered, then the results (empty without one)."""
+    r = v.filling
+    if r is None:
+        return []
+    rows = [(label, v.entered[k]) for k, label in ENTERED_FILLING_LABELS.items() if k in v.entered]
+    if r.error is not None:
+        return [*rows, ("result", "not computed (see the finding fill-not-computed)")]
+    rows += [
+        ("stop the fill at", f"{fmt.p(r.stop_pressure_Pa)} (gas at {fmt.t(r.stop_temperature_K)})"),
+        ("peak gas temperature", fmt.t(r.peak_temperature_K)),
+        (
+            "settled pressure",
+            f"{fmt.p(r.settled_pressure_Pa)} at {fmt.t(v.reference_temperature_K)}",
+        ),
+        ("gas added", fmt.m(r.added_mass_kg)),
+    ]
+    if not r.complete:
+        rows.append(
+            (
+                "fill ends short",
+                f"at {fmt.p(r.end_pressure_Pa)} and {fmt.t(r.end_temperature_K)} (supply pressure)",
+            )
+        )
+    rows.append(("model", f"{v.model_name} ({v.model}), energy balance (thermo.fill_balance)"))
+    return rows
+
+
+def filling_curve_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str, str]]:
+    """(time, gas temperature, pressure) at a few points of the curve."""
+    r = v.filling
+    if r is None or r.curve is None:
+        return []
+    c = r.curve
+    return [
+        (f"{c.time_s[i]:.0f} s", fmt.t(float(c.temperature_K[i])), fmt.p(float(c.pressure_Pa[i])))
+        for i in _shown_indices(c.time_s.size)[:: max(1, CURVE_POINTS_SHOWN // 6)]
+    ]
+
+
+def filling_dict(v: VesselAssessment) -> dict[str, Any] | None:
+    """The JSON ``filling`` key (INTERFACES.md §6), SI, pressures absolute; None without one."""
+    r = v.filling
+    if r is None:
+        return None
+    out: dict[str, Any] = {
+        "end_temperature_K": r.end_temperature_K,
+        "end_pressure_Pa": r.end_pressure_Pa,
+        "settled_pressure_Pa": r.settled_pressure_Pa,
+        "peak_temperature_K": r.peak_temperature_K,
+        "added_mass_kg": r.added_mass_kg,
+        "stop_pressure_Pa": r.stop_pressure_Pa,
+        "stop_temperature_K": r.stop_temperature_K,
+        "complete": r.complete,
+        "energy_in_J": r.energy_in_J,
+        "max_energy_residual_J": r.max_energy_residual_J,
+        "error": r.error,
+        "curve": [],
+    }
+    if r.curve is not None:
+        c = r.curve
+        out["curve"] = [
+            {
+                "time_s": float(c.time_s[i]),
+                "temperature_K": float(c.temperature_K[i]),
+                "pressure_Pa": float(c.pressure_Pa[i]),
+                "wall_temperature_K": float(c.wall_temperature_K[i]),
+                "mass_kg": float(c.moles[i] * r.molar_mass),
+            }
+            for i in _shown_indices(c.time_s.size)
+        ]
+    return out
