@@ -57,6 +57,9 @@ Source = Literal["supply", "compressor"]
 
 DEFAULT_STEPS = 120
 """Time steps of a fill curve (constant mass flow: equal mass per step)."""
+TWO_NODE_STEPS = 60
+"""Time steps of a two-node fill, solved one after the other (backward Euler: the curve moves
+by well under 0.1 K against twice as many steps for a fill of minutes)."""
 T_WIDTH_K = 1e-9
 """The bracket width the temperature of each step is solved to [K]."""
 COMPRESSOR_PASSES = 4
@@ -160,6 +163,13 @@ class Properties:
         """P(T, ρ) [Pa] from the one pressure formula."""
         return props.pressure(self.fluid.eos, T, rho_mol)
 
+    def pressure_or_zero(self, T: np.ndarray, rho_mol: np.ndarray) -> np.ndarray:
+        """P(T, ρ) [Pa], 0 where ρ = 0 (an evacuated vessel)."""
+        out = np.zeros(np.shape(T))
+        m = rho_mol > 0.0
+        out[m] = self.pressure(T[m], rho_mol[m])
+        return out
+
 
 @dataclass(frozen=True)
 class FillSpec:
@@ -220,9 +230,34 @@ def _balance(pr: Properties, n: np.ndarray, rho: np.ndarray, target: np.ndarray,
     return energy
 
 
+def _gas_energy(pr: Properties, n: np.ndarray, T: np.ndarray, rho: np.ndarray) -> np.ndarray:
+    """n·u [J] of each state, 0 for an evacuated vessel."""
+    out = np.zeros(n.shape)
+    m = n > 0.0
+    out[m] = n[m] * pr.u(T[m], rho[m])
+    return out
+
+
 def _shifted(energy: Any, offset: float) -> Any:
     """``energy`` minus a constant [J]."""
     return lambda j, T: energy(j, T) - offset
+
+
+def _newton_T(
+    pr: Properties, n: float, rho: float, target: float, C: float, T0: float
+) -> float | None:
+    """Newton's method on n·u(T, ρ) + C·T = target from T0 [K], with ∂/∂T = n·cv + C > 0;
+    None where it leaves 0.3·T0 to 3·T0 or does not settle to T_WIDTH_K in 30 steps."""
+    x = T0
+    for _ in range(30):
+        c = pr.caloric(x, rho)
+        step = (n * float(c["u"]) + C * x - target) / (n * float(c["cv"]) + C)
+        x -= step
+        if not (0.3 * T0 < x < 3.0 * T0) or not np.isfinite(x):
+            return None
+        if abs(step) <= T_WIDTH_K:
+            return x
+    return None
 
 
 def _temperature_bracket(fluid: Any, T_seed: float) -> tuple[float, float]:
@@ -271,7 +306,7 @@ def fill_curve(fluid: Any, V_m3: float, n_end_mol: float, spec: FillSpec) -> Fil
         raise StateError(
             "the residual gas before the fill already holds the charge the fill asks for"
         )
-    N = int(spec.steps)
+    N = int(spec.steps if spec.heat_transfer != "two-node" else min(spec.steps, TWO_NODE_STEPS))
     frac = np.linspace(0.0, 1.0, N + 1)
     n = n1 + (n_end_mol - n1) * frac
     t = spec.duration_s * frac
@@ -292,16 +327,16 @@ def fill_curve(fluid: Any, V_m3: float, n_end_mol: float, spec: FillSpec) -> Fil
     lo0, hi0 = _temperature_bracket(fluid, min(T1, spec.inlet_temperature_K))
     lo = np.full(N, lo0)
     hi = np.full(N, hi0)
-    for _ in range(passes):
+    P = np.zeros(N + 1)
+    for k in range(passes):
+        if k > 0:  # a compressor: the delivery enthalpy at each step's mean pressure
+            h_in = pr.h_TP(np.full(N, spec.inlet_temperature_K), 0.5 * (P[:-1] + P[1:]))
         E_in = np.concatenate([[0.0], np.cumsum(dn * h_in)])
         target = E0 + E_in[1:]
         energy = _balance(pr, n[1:], rho[1:], target, Cw)
         T = np.concatenate([[T1], _solve_T(energy, lo, hi, "a fill at constant mass flow")])
-        P = pr.pressure(T, rho)
-        if spec.source == "compressor":
-            h_in = pr.h_TP(np.full(N, spec.inlet_temperature_K), 0.5 * (P[:-1] + P[1:]))
-    E_in = np.concatenate([[0.0], np.cumsum(dn * h_in)])
-    E = n * pr.u(T, rho) + Cw * T
+        P = pr.pressure_or_zero(T, rho)
+    E = _gas_energy(pr, n, T, rho) + Cw * T
     return FillCurve(
         time_s=t,
         moles=n,
@@ -344,7 +379,7 @@ def _two_node(
     E_in = np.zeros(N + 1)
     Q_out = np.zeros(N + 1)
     T[0] = Tw[0] = T1
-    P[0] = float(pr.pressure(T1, rho[0]))
+    P[0] = float(pr.pressure_or_zero(np.array([T1]), rho[:1])[0])
     U_gas = n[0] * float(pr.u(T1, rho[0]))
     lo0, hi0 = _temperature_bracket(fluid, min(T1, spec.inlet_temperature_K, Ta))
     h_supply = (
@@ -365,15 +400,17 @@ def _two_node(
         # gas energy plus the heat into the wall, the wall's temperature eliminated
         energy = _balance(pr, np.array([nk]), np.array([rk]), np.array([rhs]), dt * Ggw * (1 - a_w))
         rhs_w = dt * Ggw * b_w
-        energy = _shifted(energy, rhs_w)
-        x = _solve_T(energy, np.array([lo0]), np.array([hi0]), "the two-node fill")[0]
+        energy = _shifted(energy, rhs_w)  # for the bracketed fallback
+        x = _newton_T(pr, nk, rk, rhs + rhs_w, dt * Ggw * (1 - a_w), T[k])
+        if x is None:  # Newton left the range or stalled: the bracketed solver
+            x = _solve_T(energy, np.array([lo0]), np.array([hi0]), "the two-node fill")[0]
         T[k + 1] = x
         Tw[k + 1] = a_w * x + b_w
         P[k + 1] = float(pr.pressure(x, rk))
         U_gas = nk * float(pr.u(x, rk))
         E_in[k + 1] = E_in[k] + dn * h
         Q_out[k + 1] = Q_out[k] + dt * Gwa * (Tw[k + 1] - Ta)
-    E = n * pr.u(T, rho) + Cw * Tw
+    E = _gas_energy(pr, n, T, rho) + Cw * Tw
     return FillCurve(
         time_s=t,
         moles=n,
