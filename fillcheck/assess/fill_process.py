@@ -24,6 +24,7 @@ from fillcheck.assess.result import Finding
 from fillcheck.errors import FillcheckError
 from fillcheck.thermo.bracketed import illinois
 from fillcheck.thermo.fill_balance import FillCurve, FillSpec, fill_curve
+from fillcheck.thermo.fill_cascade import Bank, cascade_fill
 from fillcheck.thermo.vessel import vessel_path
 
 if TYPE_CHECKING:
@@ -57,6 +58,8 @@ class FillResult:
     energy_in_J: float | None = None
     error: str | None = None
     model: str = ""
+    cascade: list[dict[str, float]] | None = None
+    """Per bank of a cascade: ``end_pressure_Pa``, ``end_temperature_K``, ``mass_given_kg``."""
 
 
 def _spec(f: FillingInput, steps: int | None = None) -> FillSpec:
@@ -111,8 +114,44 @@ def fill_result(v: VesselInput, T_ref: float) -> FillResult | None:
     return r
 
 
+def _cascade(fluid: Any, V: float, rho: float, f: FillingInput, T_ref: float) -> FillResult:
+    M = fluid.molar_mass
+    banks = [Bank(Vb, Tb, Pb) for Vb, Tb, Pb in f.banks]
+    with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+        r = cascade_fill(fluid, V, rho * V, _spec(f), banks, f.switch_difference_Pa or 0.0)
+    c = r.curve
+    if not _single_phase(fluid, c.temperature_K, c.moles / V):
+        return FillResult(error=f"{fluid.name} holds liquid during this fill")
+    n_end = float(c.moles[-1])
+    settled = float(vessel_path(fluid, np.array([T_ref]), np.array([n_end / V])).P[0])
+    T_end, P_end = float(c.temperature_K[-1]), float(c.pressure_Pa[-1])
+    return FillResult(
+        end_temperature_K=T_end,
+        end_pressure_Pa=P_end,
+        settled_pressure_Pa=settled,
+        peak_temperature_K=float(np.max(c.temperature_K)),
+        added_mass_kg=float((c.moles[-1] - c.moles[0]) * M),
+        stop_pressure_Pa=P_end if r.complete else None,
+        stop_temperature_K=T_end if r.complete else None,
+        complete=r.complete,
+        curve=c,
+        max_energy_residual_J=max(
+            float(np.max(np.abs(c.energy_residual_J))), abs(r.system_energy_residual_J)
+        ),
+        energy_in_J=float(c.energy_in_J[-1]),
+        cascade=[
+            {"end_pressure_Pa": P, "end_temperature_K": T, "mass_given_kg": n * M}
+            for P, T, n in zip(
+                r.bank_end_pressure_Pa, r.bank_end_temperature_K, r.bank_moles_given, strict=True
+            )
+        ],
+    )
+
+
 def _compute(fluid: Any, V: float, rho: float, f: FillingInput, T_ref: float) -> FillResult:
     M = fluid.molar_mass
+    if f.source == "cascade":
+        return _cascade(fluid, V, rho, f, T_ref)
     with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
         c = fill_curve(fluid, V, rho * V, _spec(f))
     rho_c = c.moles / V
@@ -191,9 +230,9 @@ def hot_end_temperature_K(v: VesselInput, T_ref: float) -> float | None:
     """The gas temperature at the end of the fill at the vessel's charge [K] (None: no fill
     process, or it could not be computed). The checked range reaches up to it."""
     r = fill_result(v, T_ref)
-    if r is None or r.stop_temperature_K is None:
+    if r is None or r.end_temperature_K is None:
         return None
-    return r.stop_temperature_K
+    return r.stop_temperature_K if r.stop_temperature_K is not None else r.end_temperature_K
 
 
 def filling_findings(
@@ -231,18 +270,33 @@ def filling_findings(
                 )
             )
         return out
-    assert r.stop_pressure_Pa is not None and r.stop_temperature_K is not None
     assert r.peak_temperature_K is not None and r.settled_pressure_Pa is not None
     heat = {
         "adiabatic": "the gas alone (adiabatic)",
         "lumped": f"the wall sharing the heat ({f.wall_heat_capacity_J_K / 1e3:.1f} kJ/K)",
         "two-node": "gas and wall nodes with heat transfer",
     }[f.heat_transfer]
-    src = (
-        f"a supply at {p(f.supply_pressure_Pa)} and {t(f.inlet_temperature_K)} through a valve"
-        if f.supply_pressure_Pa is not None
-        else f"a compressor delivering at {t(f.inlet_temperature_K)}"
-    )
+    if f.source == "cascade":
+        src = f"a cascade of {len(f.banks)} banks"
+    elif f.supply_pressure_Pa is not None:
+        src = (
+            f"a supply at {p(f.supply_pressure_Pa)} and {t(f.inlet_temperature_K)} through a valve"
+        )
+    else:
+        src = f"a compressor delivering at {t(f.inlet_temperature_K)}"
+    if r.stop_pressure_Pa is None:  # a cascade that runs out: the end state only
+        assert r.end_pressure_Pa is not None and r.added_mass_kg is not None
+        out = [
+            Finding(
+                "fill-supply-short",
+                "warning",
+                f"Filled from {src}, {heat}: the banks run out before the charge is in; the "
+                f"fill ends at {p(r.end_pressure_Pa)} and {t(r.end_temperature_K or 0.0)} "
+                f"with {units.format_mass(r.added_mass_kg, system)} added, settling at "
+                f"{p(r.settled_pressure_Pa)}; peak gas temperature {t(r.peak_temperature_K)}.",
+            )
+        ]
+        return out + _peak_findings(f, r, t, system)
     out = [
         Finding(
             "fill-process",
@@ -265,7 +319,16 @@ def filling_findings(
                 f"{p(r.stop_pressure_Pa)} (a higher supply pressure or a cascade).",
             )
         )
+    return out + _peak_findings(f, r, t, system)
+
+
+def _peak_findings(
+    f: FillingInput, r: FillResult, t: Any, system: units.UnitSystem
+) -> list[Finding]:
+    """The peak gas temperature against ``limits.max_fill_temperature``."""
+    out: list[Finding] = []
     limit = f.max_fill_temperature_K
+    assert r.peak_temperature_K is not None
     if limit is not None:
         if r.peak_temperature_K > limit:
             out.append(

@@ -17,6 +17,7 @@ ENTERED_FILLING_LABELS = {
     "filling.supply.pressure": "supply pressure",
     "filling.supply.temperature": "supply temperature",
     "filling.compressor.delivery_temperature": "compressor delivery temperature",
+    "filling.switch_difference": "next bank below",
     "filling.start.pressure": "residual pressure at start",
     "filling.start.temperature": "residual gas temperature",
     "filling.duration": "fill duration",
@@ -44,8 +45,13 @@ def filling_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
     rows = [(label, v.entered[k]) for k, label in ENTERED_FILLING_LABELS.items() if k in v.entered]
     if r.error is not None:
         return [*rows, ("result", "not computed (see the finding fill-not-computed)")]
+    stop = (
+        f"{fmt.p(r.stop_pressure_Pa)} (gas at {fmt.t(r.stop_temperature_K)})"
+        if r.stop_pressure_Pa is not None
+        else "not reached: the banks run out"
+    )
     rows += [
-        ("stop the fill at", f"{fmt.p(r.stop_pressure_Pa)} (gas at {fmt.t(r.stop_temperature_K)})"),
+        ("stop the fill at", stop),
         ("peak gas temperature", fmt.t(r.peak_temperature_K)),
         (
             "settled pressure",
@@ -53,11 +59,19 @@ def filling_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
         ),
         ("gas added", fmt.m(r.added_mass_kg)),
     ]
+    for i, b in enumerate(r.cascade or [], start=1):
+        rows.append(
+            (
+                f"bank {i}",
+                f"gave {fmt.m(b['mass_given_kg'])}, ends at {fmt.p(b['end_pressure_Pa'])} and "
+                f"{fmt.t(b['end_temperature_K'])}",
+            )
+        )
     if not r.complete:
         rows.append(
             (
                 "fill ends short",
-                f"at {fmt.p(r.end_pressure_Pa)} and {fmt.t(r.end_temperature_K)} (supply pressure)",
+                f"at {fmt.p(r.end_pressure_Pa)} and {fmt.t(r.end_temperature_K)}",
             )
         )
     rows.append(("model", f"{v.model_name} ({v.model}), energy balance (thermo.fill_balance)"))
@@ -94,6 +108,7 @@ def filling_dict(v: VesselAssessment) -> dict[str, Any] | None:
         "max_energy_residual_J": r.max_energy_residual_J,
         "error": r.error,
         "curve": [],
+        "cascade": r.cascade,
     }
     if r.curve is not None:
         c = r.curve

@@ -35,6 +35,14 @@ class CompressorSpec(_Strict):
     delivery_temperature: Quantity
 
 
+class BankSpec(_Strict):
+    """One bank of a cascade: its volume and the state of its gas before the fill."""
+
+    water_capacity: Quantity
+    pressure: Quantity
+    temperature: Quantity
+
+
 class StartSpec(_Strict):
     """The residual gas in the vessel before the fill."""
 
@@ -63,6 +71,8 @@ class FillingSpec(_Strict):
 
     supply: SupplySpec | None = None
     compressor: CompressorSpec | None = None
+    cascade: list[BankSpec] | None = None
+    switch_difference: Quantity | None = None
     start: StartSpec | None = None
     duration: Quantity
     ambient_temperature: Quantity | None = None
@@ -120,6 +130,9 @@ class FillingInput:
     gas_wall_conductance_W_K: float = 0.0
     wall_ambient_conductance_W_K: float = 0.0
     max_fill_temperature_K: float | None = None
+    banks: tuple[tuple[float, float, float], ...] = ()
+    """A cascade's banks in order: (volume [m³], temperature [K], pressure [Pa abs])."""
+    switch_difference_Pa: float | None = None
     cache: dict[Any, Any] = field(default_factory=dict, repr=False)
     """Computed results by reference temperature (assess.fill_process), filled on first use."""
 
@@ -144,14 +157,39 @@ def resolve_filling(
                 "fill; add one (supply or compressor, duration) or remove the limit",
             )
         return None
-    if (spec.supply is None) == (spec.compressor is None):
-        what = "both" if spec.supply is not None else "neither"
+    given = [k for k in ("supply", "compressor", "cascade") if getattr(spec, k) is not None]
+    if len(given) != 1:
+        what = " and ".join(given) if given else "none"
         raise where.fail(
             "filling",
-            f"gives {what} of supply and compressor; give exactly one, e.g. "
+            f"gives {what} of supply, compressor, cascade; give exactly one, e.g. "
             'supply = { pressure = "300 barg", temperature = "15 degC" }',
         )
-    if spec.supply is not None:
+    banks: tuple[tuple[float, float, float], ...] = ()
+    switch = None
+    if spec.switch_difference is not None and spec.cascade is None:
+        raise where.fail(
+            "filling.switch_difference",
+            "is for a cascade of banks; remove it or give cascade = [ ... ]",
+        )
+    if spec.cascade is not None:
+        source, P_supply, T_in = "cascade", None, T_ref
+        banks = _banks(spec.cascade, where, P_atm, temperature, entered)
+        switch = 5e5
+        if spec.switch_difference is not None:
+            entered["filling.switch_difference"] = spec.switch_difference
+            switch = where.run(
+                "filling.switch_difference",
+                units.parse_pressure_difference,
+                spec.switch_difference,
+            )
+            if not 0.0 <= switch <= 100e5:
+                raise where.fail(
+                    "filling.switch_difference",
+                    f"'{spec.switch_difference}' is not a switching difference; give 0 to "
+                    '100 bar, e.g. "5 bar"',
+                )
+    elif spec.supply is not None:
         source = "supply"
         entered["filling.supply.pressure"] = spec.supply.pressure
         entered["filling.supply.temperature"] = spec.supply.temperature
@@ -181,6 +219,12 @@ def resolve_filling(
         if spec.start.temperature is not None:
             entered["filling.start.temperature"] = spec.start.temperature
             T_start = temperature(spec.start.temperature, "filling.start.temperature")
+    if banks and P_start >= max(P for _, _, P in banks):
+        raise where.fail(
+            "filling.start.pressure",
+            "is not below the pressure of any bank of the cascade; gas flows in only from a "
+            "higher pressure",
+        )
     if P_supply is not None and P_start >= P_supply:
         raise where.fail(
             "filling.start.pressure",
@@ -247,7 +291,42 @@ def resolve_filling(
         gas_wall_conductance_W_K=Ggw,
         wall_ambient_conductance_W_K=Gwa,
         max_fill_temperature_K=limit_K,
+        banks=banks,
+        switch_difference_Pa=switch,
     )
+
+
+def _banks(
+    specs: list[BankSpec], where: Any, P_atm: float, temperature: Any, entered: dict[str, str]
+) -> tuple[tuple[float, float, float], ...]:
+    """A cascade's banks in SI, refusing an empty list and banks at or below the atmosphere."""
+    if not 1 <= len(specs) <= 20:
+        raise where.fail(
+            "filling.cascade",
+            f"lists {len(specs)} banks; a cascade has 1 to 20, each "
+            '{ water_capacity = "300 L", pressure = "200 barg", temperature = "15 degC" }',
+        )
+    out = []
+    for i, b in enumerate(specs, start=1):
+        at = f"filling.cascade[{i}]"
+        entered[f"{at}.water_capacity"] = b.water_capacity
+        entered[f"{at}.pressure"] = b.pressure
+        V = where.run(f"{at}.water_capacity", units.parse_volume, b.water_capacity)
+        if not bounds.WATER_CAPACITY_MIN_m3 <= V <= bounds.WATER_CAPACITY_MAX_m3:
+            raise where.fail(
+                f"{at}.water_capacity",
+                f"'{b.water_capacity}' is outside 1 mL to 1000 m³; check the number and the unit",
+            )
+        P = where.pressure(f"{at}.pressure", b.pressure, P_atm)
+        if P <= P_atm:
+            raise where.fail(
+                f"{at}.pressure",
+                f"'{b.pressure}' is not above the atmosphere; a bank that fills is at a "
+                "higher pressure",
+            )
+        T = temperature(b.temperature, f"{at}.temperature")
+        out.append((V, T, P))
+    return tuple(out)
 
 
 def _wall(w: WallSpec, where: Any, entered: dict[str, str]) -> tuple[float, str]:

@@ -53,7 +53,7 @@ from fillcheck.thermo.bracketed import illinois
 from fillcheck.thermo.limits import highest_temperature_K
 
 HeatTransfer = Literal["adiabatic", "lumped", "two-node"]
-Source = Literal["supply", "compressor"]
+Source = Literal["supply", "compressor", "cascade"]
 
 DEFAULT_STEPS = 120
 """Time steps of a fill curve (constant mass flow: equal mass per step)."""
