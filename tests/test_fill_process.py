@@ -545,3 +545,22 @@ def test_bad_cascade_refused(filling: dict, field: str) -> None:
         scenario_from_dict(_vessel(filling), "bad.toml")
     msg = str(e.value)
     assert "bad.toml" in msg and "N2-TEST" in msg and f"'{field}'" in msg and "\n" not in msg, msg
+
+
+def test_fill_plan_hot_warns_where_the_plan_filled_this_way_ends_over_the_limit() -> None:
+    # 150 barg settled, filled in 90 s from 350 barg with the gas alone: the plan's larger
+    # charge ends hotter than the charge asked for, and over 300 barg while hot
+    raw = _vessel(
+        {"supply": {"pressure": "350 barg", "temperature": "15 degC"}, "duration": "90 s"}
+    )
+    raw["vessel"][0]["fill"] = {"settled_pressure": "150 barg", "temperature": "15 degC"}
+    sc = scenario_from_dict(raw, "hot.toml")
+    a = assess_vessel(sc.vessels[0], sc.reference_temperature_K)
+    assert a.verdict == "pass"
+    hot = [f for f in a.findings if f.code == "fill-plan-hot"]
+    assert len(hot) == 1 and hot[0].severity == "warning"
+    # its neighbour: a steel wall sharing the heat keeps the plan's charge within the limit
+    raw["vessel"][0]["filling"]["wall"] = {"mass": "58 kg", "material": "steel"}
+    sc = scenario_from_dict(raw, "cool.toml")
+    a = assess_vessel(sc.vessels[0], sc.reference_temperature_K)
+    assert "fill-plan-hot" not in {f.code for f in a.findings}

@@ -359,3 +359,84 @@ def limits_checked(v: VesselInput, system: units.UnitSystem = "metric") -> list[
         return []
     T = units.format_temperature(f.max_fill_temperature_K, system)
     return [f"peak gas temperature during the fill {T}"]
+
+
+PLAN_CLEARANCE = 1e-3
+"""The fill-process charge keeps its end-of-fill pressure this fraction below the limit [-]
+(the plan's own 0.1 % clearance, assess.charge)."""
+SEARCH_STEPS = 20
+"""Time steps of each trial fill while searching the largest charge of a path-dependent fill."""
+
+
+def plan_fill_findings(
+    v: VesselInput, a: Any, T_ref: float, system: units.UnitSystem = "metric"
+) -> list[Finding]:
+    """``fill-plan-hot`` (warning): the plan's largest safe charge, filled the way
+    ``[vessel.filling]`` says, would end the fill above the allowable pressure or at the relief
+    setting while hot. The plan checks the hot state of the charge asked for; a larger charge
+    ends hotter. The finding gives the largest charge this fill keeps within both, and its stop
+    pressure."""
+    f, r = v.filling, a.filling
+    if f is None or r is None or r.error is not None or a.max_safe_charge_kg is None:
+        return []
+    lims = [("allowable pressure", v.limits.allowable_pressure_Pa)]
+    if v.limits.relief_set_pressure_Pa is not None:
+        lims.append(("relief set pressure", v.limits.relief_set_pressure_Pa))
+    name, limit = min(lims, key=lambda x: x[1])
+    cap = limit * (1.0 - PLAN_CLEARANCE)
+    fluid, V, M = v.fluid, v.water_capacity_m3, float(v.fluid.molar_mass)
+    path_free = f.source == "supply" and f.heat_transfer != "two-node"
+    steps = 1 if path_free else SEARCH_STEPS
+
+    def end(m_kg: float) -> tuple[float, float, bool]:
+        with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+            if f.source == "cascade":
+                banks = [Bank(Vb, Tb, Pb) for Vb, Tb, Pb in f.banks]
+                c = cascade_fill(
+                    fluid, V, m_kg / M, _spec(f, steps), banks, f.switch_difference_Pa or 0.0
+                )
+                return float(c.curve.pressure_Pa[-1]), float(c.curve.temperature_K[-1]), c.complete
+            e = fill_curve(fluid, V, m_kg / M, _spec(f, steps))
+            return float(e.pressure_Pa[-1]), float(e.temperature_K[-1]), True
+
+    m_plan = float(a.max_safe_charge_kg)
+    try:
+        P_plan, T_plan, done = end(m_plan)
+        if not done or P_plan <= cap:
+            return []
+        m_lo = min(a.charged_mass_kg, m_plan)
+        P_lo = end(m_lo)[0]
+        if P_lo > cap:  # even the asked-for charge is over: the verdict already fails it
+            return []
+        br = illinois(
+            lambda j, x: np.array([end(float(x[0]))[0] - cap]),
+            np.array([m_lo]),
+            np.array([m_plan]),
+            np.array([P_lo - cap]),
+            np.array([P_plan - cap]),
+            width=1e-5 * m_plan,
+            max_iter=30,
+        )
+        m_ok = float(br.a[0])
+        P_ok, T_ok, _ = end(m_ok)
+    except (FillcheckError, ArithmeticError, ValueError):
+        return []
+    atm = v.atmospheric_pressure_Pa
+
+    def p(x: float) -> str:
+        return units.format_pressure(x, system, gauge=True, atmospheric_pressure_Pa=atm)
+
+    def t(x: float) -> str:
+        return units.format_temperature(x, system)
+
+    mass = units.format_mass
+    return [
+        Finding(
+            "fill-plan-hot",
+            "warning",
+            f"Filled this way, the largest safe charge {mass(m_plan, system, down=True)} would "
+            f"end the fill at {p(P_plan)} with the gas at {t(T_plan)}, over the {name} "
+            f"{p(limit)} while hot; this fill keeps it up to "
+            f"{mass(m_ok, system, down=True)} (stop at {p(P_ok)} at {t(T_ok)}).",
+        )
+    ]
