@@ -564,3 +564,13 @@ def test_fill_plan_hot_warns_where_the_plan_filled_this_way_ends_over_the_limit(
     sc = scenario_from_dict(raw, "cool.toml")
     a = assess_vessel(sc.vessels[0], sc.reference_temperature_K)
     assert "fill-plan-hot" not in {f.code for f in a.findings}
+
+
+def test_html_has_the_fill_process_and_its_chart(tmp_path: Path) -> None:
+    out = tmp_path / "fill.html"
+    res = CliRunner().invoke(app, ["check", str(DEMO), "--html", str(out)])
+    assert res.exit_code == 1
+    html = out.read_text(encoding="utf-8")
+    assert html.count("<h3>Fill process</h3>") == 3
+    assert html.count("<svg") == 6  # a pressure–temperature chart and a fill chart per vessel
+    assert "gas temperature" in html

@@ -123,3 +123,35 @@ def filling_dict(v: VesselAssessment) -> dict[str, Any] | None:
             for i in _shown_indices(c.time_s.size)
         ]
     return out
+
+
+def filling_chart_svg(v: VesselAssessment, system: str, atm: float) -> str:
+    """Gas temperature and pressure against time over the fill, an inline SVG ("" without a
+    curve). matplotlib is imported only here, for ``--html``."""
+    r = v.filling
+    if r is None or r.curve is None:
+        return ""
+    from fillcheck.report.chart import _axes_units, _quiet, _svg
+
+    with _quiet():
+        import matplotlib
+
+        matplotlib.use("Agg")
+        from matplotlib.figure import Figure
+
+        T_of, T_label, P_of, P_label = _axes_units(system)  # type: ignore[arg-type]
+        c = r.curve
+        fig = Figure(figsize=(6.3, 2.8), dpi=100)
+        ax = fig.add_subplot()
+        ax.plot(c.time_s, T_of(c.temperature_K), color="#b3261e", label="gas temperature")
+        if np.any(c.wall_temperature_K != c.wall_temperature_K[0]):
+            ax.plot(c.time_s, T_of(c.wall_temperature_K), color="#c98a00", ls="--", label="wall")
+        ax.set_xlabel("time [s]")
+        ax.set_ylabel(T_label)
+        ax2 = ax.twinx()
+        ax2.plot(c.time_s, P_of(c.pressure_Pa, atm), color="#1f4e79", label="pressure")
+        ax2.set_ylabel(P_label)
+        lines = ax.get_lines() + ax2.get_lines()
+        ax.legend(lines, [ln.get_label() for ln in lines], fontsize=8, loc="upper left")
+        ax.grid(True, lw=0.4, alpha=0.6)
+        return _svg(fig)

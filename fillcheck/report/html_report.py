@@ -30,7 +30,7 @@ from fillcheck.report.content import (
     sorted_findings,
     verdict_sentence,
 )
-from fillcheck.report.fill_section import filling_rows
+from fillcheck.report.fill_section import filling_chart_svg, filling_rows
 from fillcheck.report.terminal import header_rows, tally
 
 _CSS = """
@@ -84,6 +84,7 @@ def _vessel(v: VesselAssessment, fmt: Formatter) -> str:
         f"<h3>Results</h3>{_table(result_rows(v, fmt), numeric=True)}"
         + (
             f"<h3>Fill process</h3>{_table(filling_rows(v, fmt), numeric=True)}"
+            f'<div class="chart">{filling_chart_svg(v, fmt.system, fmt.atm)}</div>'
             if v.filling is not None
             else ""
         )
