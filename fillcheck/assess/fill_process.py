@@ -94,8 +94,10 @@ def fill_result(v: VesselInput, T_ref: float) -> FillResult | None:
     f = v.filling
     if f is None:
         return None
-    if T_ref in f.cache:
-        return f.cache[T_ref]
+    # one FillingInput may be shared by vessels of other charges (a plan checked as a fill)
+    key = (T_ref, v.fill_kind, v.fill_value, v.fill_temperature_K, v.water_capacity_m3)
+    if key in f.cache:
+        return f.cache[key]
     from fillcheck.assess.batch import fill_densities  # batch imports the checked range
 
     fluid = v.fluid
@@ -110,7 +112,7 @@ def fill_result(v: VesselInput, T_ref: float) -> FillResult | None:
         r = FillResult(error=f"the energy balance could not be evaluated ({exc})")
     r.molar_mass = M
     r.model = fluid.model
-    f.cache[T_ref] = r
+    f.cache[key] = r
     return r
 
 
@@ -371,11 +373,15 @@ SEARCH_STEPS = 20
 def plan_fill_findings(
     v: VesselInput, a: Any, T_ref: float, system: units.UnitSystem = "metric"
 ) -> list[Finding]:
-    """``fill-plan-hot`` (warning): the plan's largest safe charge, filled the way
-    ``[vessel.filling]`` says, would end the fill above the allowable pressure or at the relief
-    setting while hot. The plan checks the hot state of the charge asked for; a larger charge
-    ends hotter. The finding gives the largest charge this fill keeps within both, and its stop
-    pressure."""
+    """Keep the plan within the fill process: ``fill-plan-hot`` (warning).
+
+    The plan (assess.charge) checks the hot end of the charge asked for; a larger charge filled
+    the same way ends hotter. Where the plan's largest safe charge, filled as
+    ``[vessel.filling]`` says, would end above the lower of the allowable pressure and the relief
+    setting (less the model's uncertainty and the plan's clearance) or pass
+    ``limits.max_fill_temperature``, the plan is lowered to the largest charge this fill keeps
+    within them (its stop pressure at the fill temperature follows), or withdrawn where no charge
+    does. So a plan followed, filled this way, passes."""
     f, r = v.filling, a.filling
     if f is None or r is None or r.error is not None or a.max_safe_charge_kg is None:
         return []
@@ -383,42 +389,52 @@ def plan_fill_findings(
     if v.limits.relief_set_pressure_Pa is not None:
         lims.append(("relief set pressure", v.limits.relief_set_pressure_Pa))
     name, limit = min(lims, key=lambda x: x[1])
-    cap = limit * (1.0 - PLAN_CLEARANCE)
+    u = float(a.pressure_uncertainty_at_top or 0.0)
+    cap = limit * (1.0 - PLAN_CLEARANCE) / (1.0 + u)
+    T_cap = f.max_fill_temperature_K
     fluid, V, M = v.fluid, v.water_capacity_m3, float(v.fluid.molar_mass)
     path_free = f.source == "supply" and f.heat_transfer != "two-node"
     steps = 1 if path_free else SEARCH_STEPS
 
     def end(m_kg: float) -> tuple[float, float, bool]:
+        """End-of-fill pressure [Pa], peak gas temperature [K], whether the fill completes."""
         with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
             if f.source == "cascade":
                 banks = [Bank(Vb, Tb, Pb) for Vb, Tb, Pb in f.banks]
                 c = cascade_fill(
                     fluid, V, m_kg / M, _spec(f, steps), banks, f.switch_difference_Pa or 0.0
                 )
-                return float(c.curve.pressure_Pa[-1]), float(c.curve.temperature_K[-1]), c.complete
-            e = fill_curve(fluid, V, m_kg / M, _spec(f, steps))
-            return float(e.pressure_Pa[-1]), float(e.temperature_K[-1]), True
+                cur, done = c.curve, c.complete
+            else:
+                cur, done = fill_curve(fluid, V, m_kg / M, _spec(f, steps)), True
+        return float(cur.pressure_Pa[-1]), float(np.max(cur.temperature_K)), done
+
+    def excess(m_kg: float) -> float:
+        """> 0 where the charge breaks a limit at the end of this fill (increasing in m)."""
+        P, T, _ = end(m_kg)
+        g = P / cap - 1.0
+        return max(g, T / T_cap - 1.0) if T_cap is not None else g
 
     m_plan = float(a.max_safe_charge_kg)
     try:
         P_plan, T_plan, done = end(m_plan)
-        if not done or P_plan <= cap:
+        if not done or excess(m_plan) <= 0.0:
             return []
-        m_lo = min(a.charged_mass_kg, m_plan)
-        P_lo = end(m_lo)[0]
-        if P_lo > cap:  # even the asked-for charge is over: the verdict already fails it
-            return []
-        br = illinois(
-            lambda j, x: np.array([end(float(x[0]))[0] - cap]),
-            np.array([m_lo]),
-            np.array([m_plan]),
-            np.array([P_lo - cap]),
-            np.array([P_plan - cap]),
-            width=1e-5 * m_plan,
-            max_iter=30,
-        )
-        m_ok = float(br.a[0])
-        P_ok, T_ok, _ = end(m_ok)
+        c0 = r.curve
+        m_lo = float(c0.moles[0] * M) * (1.0 + 1e-6) + 1e-9 if c0 is not None else 1e-9
+        g_lo = excess(m_lo) if m_lo < m_plan else 1.0
+        m_ok = None
+        if g_lo <= 0.0:
+            br = illinois(
+                lambda j, x: np.array([excess(float(x[0]))]),
+                np.array([m_lo]),
+                np.array([m_plan]),
+                np.array([g_lo]),
+                np.array([excess(m_plan)]),
+                width=1e-6 * m_plan,
+                max_iter=40,
+            )
+            m_ok = float(br.a[0])
     except (FillcheckError, ArithmeticError, ValueError):
         return []
     atm = v.atmospheric_pressure_Pa
@@ -429,14 +445,42 @@ def plan_fill_findings(
     def t(x: float) -> str:
         return units.format_temperature(x, system)
 
-    mass = units.format_mass
+    broken = (
+        "the peak gas temperature limit"
+        if T_cap is not None and T_plan > T_cap and P_plan <= cap
+        else f"the {name}"
+    )
+    said = (
+        f"Filled this way, the largest charge the storage range allows, "
+        f"{units.format_mass(m_plan, system, down=True)}, would end the fill at {p(P_plan)} with "
+        f"the gas at {t(T_plan)}, beyond {broken} (with the model's uncertainty); "
+    )
+    if m_ok is None:
+        a.max_safe_charge_kg = None
+        a.max_safe_fill_pressure_Pa = None
+        a.governing_limit = "the fill process"
+        return [
+            Finding(
+                "fill-plan-hot",
+                "warning",
+                said + "no charge keeps it filled this way: change the fill (slower, cooler "
+                "supply, a wall that shares the heat).",
+            )
+        ]
+    P_ok, T_ok, _ = end(m_ok)
+    a.max_safe_charge_kg = round(m_ok, 9)
+    a.governing_limit = f"{name} at the end of the fill"
+    if T_cap is not None and T_ok >= T_cap * (1.0 - 1e-6):
+        a.governing_limit = "peak fill temperature"
+    if a.max_safe_fill_pressure_Pa is not None and v.fill_temperature_K is not None:
+        a.max_safe_fill_pressure_Pa = float(
+            vessel_path(fluid, np.array([v.fill_temperature_K]), np.array([m_ok / M / V])).P[0]
+        )
     return [
         Finding(
             "fill-plan-hot",
             "warning",
-            f"Filled this way, the largest safe charge {mass(m_plan, system, down=True)} would "
-            f"end the fill at {p(P_plan)} with the gas at {t(T_plan)}, over the {name} "
-            f"{p(limit)} while hot; this fill keeps it up to "
-            f"{mass(m_ok, system, down=True)} (stop at {p(P_ok)} at {t(T_ok)}).",
+            said + f"the plan is lowered to {units.format_mass(m_ok, system, down=True)}, whose "
+            f"fill ends at {p(P_ok)} with the gas at {t(T_ok)}.",
         )
     ]

@@ -159,10 +159,10 @@ def resolve_filling(
         return None
     given = [k for k in ("supply", "compressor", "cascade") if getattr(spec, k) is not None]
     if len(given) != 1:
-        what = " and ".join(given) if given else "none"
+        what = ("both " if len(given) == 2 else "") + " and ".join(given) or "no source of gas"
         raise where.fail(
             "filling",
-            f"gives {what} of supply, compressor, cascade; give exactly one, e.g. "
+            f"gives {what}; give exactly one of supply, compressor, cascade, e.g. "
             'supply = { pressure = "300 barg", temperature = "15 degC" }',
         )
     banks: tuple[tuple[float, float, float], ...] = ()
