@@ -31,6 +31,8 @@ if TYPE_CHECKING:
     from fillcheck.scenario.filling_input import FillingInput
     from fillcheck.scenario.resolve import VesselInput
 
+CASCADE_COUNT_MAX = 50
+"""The count of vessels a cascade fills is given up to this many (then "at least")."""
 CURVE_POINTS_SHOWN = 25
 """Points of the time curve kept in the JSON and the report (every step is computed)."""
 
@@ -60,6 +62,10 @@ class FillResult:
     model: str = ""
     cascade: list[dict[str, float]] | None = None
     """Per bank of a cascade: ``end_pressure_Pa``, ``end_temperature_K``, ``mass_given_kg``."""
+    cascade_vessels_filled: int | None = None
+    """How many vessels like this one the banks fill to the charge, one after another, before
+    one falls short (banks not refilled and not warmed between fills), up to
+    CASCADE_COUNT_MAX."""
 
 
 def _spec(f: FillingInput, steps: int | None = None) -> FillSpec:
@@ -141,6 +147,7 @@ def _cascade(fluid: Any, V: float, rho: float, f: FillingInput, T_ref: float) ->
             float(np.max(np.abs(c.energy_residual_J))), abs(r.system_energy_residual_J)
         ),
         energy_in_J=float(c.energy_in_J[-1]),
+        cascade_vessels_filled=_vessels_filled(fluid, V, rho, f, r) if r.complete else 0,
         cascade=[
             {"end_pressure_Pa": P, "end_temperature_K": T, "mass_given_kg": n * M}
             for P, T, n in zip(
@@ -148,6 +155,29 @@ def _cascade(fluid: Any, V: float, rho: float, f: FillingInput, T_ref: float) ->
             )
         ],
     )
+
+
+def _vessels_filled(fluid: Any, V: float, rho: float, f: FillingInput, first: Any) -> int:
+    """Vessels like this one filled one after another from the banks (the first included),
+    each starting from the same residual gas, the banks left as the last fill left them (cold:
+    a bank warmed back to the ambient between fills holds more pressure, so the count errs
+    low). Trial fills use SEARCH_STEPS time steps."""
+    count = 1
+    states = list(zip(first.bank_end_temperature_K, first.bank_end_pressure_Pa, strict=True))
+    while count < CASCADE_COUNT_MAX:
+        banks = [Bank(Vb, T, P) for (Vb, _, _), (T, P) in zip(f.banks, states, strict=True)]
+        with np.errstate(invalid="ignore", divide="ignore", over="ignore"):
+            try:
+                r = cascade_fill(
+                    fluid, V, rho * V, _spec(f, SEARCH_STEPS), banks, f.switch_difference_Pa or 0.0
+                )
+            except (FillcheckError, ArithmeticError, ValueError):
+                break
+        if not r.complete:
+            break
+        count += 1
+        states = list(zip(r.bank_end_temperature_K, r.bank_end_pressure_Pa, strict=True))
+    return count
 
 
 def _compute(fluid: Any, V: float, rho: float, f: FillingInput, T_ref: float) -> FillResult:

@@ -9,7 +9,7 @@ from typing import Any
 
 import numpy as np
 
-from fillcheck.assess.fill_process import CURVE_POINTS_SHOWN
+from fillcheck.assess.fill_process import CASCADE_COUNT_MAX, CURVE_POINTS_SHOWN
 from fillcheck.assess.result import VesselAssessment
 from fillcheck.report.content import Formatter
 
@@ -67,6 +67,10 @@ def filling_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
                 f"{fmt.t(b['end_temperature_K'])}",
             )
         )
+    if r.cascade_vessels_filled is not None:
+        n = r.cascade_vessels_filled
+        more = " or more" if n >= CASCADE_COUNT_MAX else ""
+        rows.append(("vessels the banks fill", f"{n}{more} like this one, one after another"))
     if not r.complete:
         rows.append(
             (
@@ -109,6 +113,7 @@ def filling_dict(v: VesselAssessment) -> dict[str, Any] | None:
         "error": r.error,
         "curve": [],
         "cascade": r.cascade,
+        "cascade_vessels_filled": r.cascade_vessels_filled,
     }
     if r.curve is not None:
         c = r.curve
