@@ -68,6 +68,19 @@ _TABLES: dict[str, _Table] = {
     "density": {**_PER_LITRE, **_same(_LB_kg / _FT3_m3, 0.0, "lb/ft3", "lb/ft^3", "lb/ft³")},
     "filling ratio": _PER_LITRE,
     "fraction": {**_same(1e-2, 0.0, "%", "percent"), "ppm": (1e-6, 0.0)},
+    "duration": {
+        **_same(1.0, 0.0, "s", "sec"),
+        **_same(60.0, 0.0, "min"),
+        **_same(3600.0, 0.0, "h"),
+    },
+    "specific heat": {
+        **_same(1.0, 0.0, "J/(kg K)", "J/(kg·K)", "J/kg/K"),
+        **_same(1e3, 0.0, "kJ/(kg K)", "kJ/(kg·K)", "kJ/kg/K"),
+    },
+    "heat transfer coefficient": {
+        **_same(1.0, 0.0, "W/(m2 K)", "W/(m² K)", "W/(m²·K)", "W/(m2·K)", "W/m2/K"),
+    },
+    "area": {**_same(1.0, 0.0, "m2", "m^2", "m²"), **_same(1e-4, 0.0, "cm2", "cm^2", "cm²")},
 }
 _LOOKUP = {kind: {k.casefold(): v for k, v in t.items()} for kind, t in _TABLES.items()}
 _CANONICAL_PRESSURE = {k.casefold(): k for k in _TABLES["pressure"]}
@@ -81,6 +94,10 @@ _EXAMPLE = {
     "density": "100 kg/m3",
     "filling ratio": "0.75 kg/L",
     "fraction": "18 %",
+    "duration": "4 min",
+    "specific heat": "0.48 kJ/(kg K)",
+    "heat transfer coefficient": "150 W/(m2 K)",
+    "area": "0.8 m2",
 }
 _NUMBER_RE = re.compile(r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?")
 _NONFINITE_RE = re.compile(r"[+-]?(?:nan|inf(?:inity)?)(?![a-z])", re.IGNORECASE)
@@ -317,6 +334,50 @@ def parse_density(text: str) -> float:
         Density [kg/m³].
     """
     return _amount(text, "density")
+
+
+def parse_duration(text: str) -> float:
+    """Parse a duration in ``s sec min h``, e.g. ``"4 min"``; not negative.
+
+    Returns
+    -------
+    float
+        Duration [s].
+    """
+    return _amount(text, "duration")
+
+
+def parse_specific_heat(text: str) -> float:
+    """Parse a specific heat capacity in ``J/(kg K)`` or ``kJ/(kg K)`` (``·`` or ``/kg/K`` too).
+
+    Returns
+    -------
+    float
+        Specific heat capacity [J/(kg·K)].
+    """
+    return _amount(text, "specific heat")
+
+
+def parse_heat_transfer_coefficient(text: str) -> float:
+    """Parse a heat-transfer coefficient in ``W/(m2 K)`` (``m²``, ``·`` or ``/m2/K`` too).
+
+    Returns
+    -------
+    float
+        Heat-transfer coefficient [W/(m²·K)].
+    """
+    return _amount(text, "heat transfer coefficient")
+
+
+def parse_area(text: str) -> float:
+    """Parse an area in ``m2 m^2 m² cm2``, e.g. ``"0.8 m2"``; not negative.
+
+    Returns
+    -------
+    float
+        Area [m²].
+    """
+    return _amount(text, "area")
 
 
 def parse_fraction(text: str | float | int) -> float:

@@ -104,7 +104,10 @@ def test_demo_vessel_against_reference_equation(
     name = vessel.fluid.data.coolprop_name
     rho_ref = _reference_density(vessel, T_ref)
     by_mass = vessel.fill_kind in ("mass", "filling_ratio")
-    T_max = vessel.max_temperature_K
+    # the top of the checked range: the storage maximum, or a hotter fill (or end of a fill
+    # process, assess.fill_process)
+    T_max = a.max_state.temperature_K
+    assert T_max >= vessel.max_temperature_K
     P_ref = CP.PropsSI("P", "T", T_max, "D", rho_ref, name)
     # the settled pressure is independent of the fill's own input for every kind of fill
     settled_ref = CP.PropsSI("P", "T", T_ref, "D", rho_ref, name)

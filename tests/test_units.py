@@ -55,6 +55,15 @@ PINT_NAMES: dict[str, tuple[dict[str, str], str]] = {
     "filling ratio": ({"kg/L": "kg/L", "g/L": "g/L", "kg/m3": "kg/m**3", "kg/m^3": "kg/m**3",
                        "kg/m³": "kg/m**3"}, "kg/m**3"),
     "fraction": ({"%": "percent", "percent": "percent", "ppm": "ppm"}, "dimensionless"),
+    "duration": ({"s": "s", "sec": "s", "min": "min", "h": "hour"}, "s"),
+    "specific heat": ({"J/(kg K)": "J/(kg*K)", "J/(kg·K)": "J/(kg*K)", "J/kg/K": "J/(kg*K)",
+                       "kJ/(kg K)": "kJ/(kg*K)", "kJ/(kg·K)": "kJ/(kg*K)",
+                       "kJ/kg/K": "kJ/(kg*K)"}, "J/(kg*K)"),
+    "heat transfer coefficient": ({"W/(m2 K)": "W/(m**2*K)", "W/(m² K)": "W/(m**2*K)",
+                                   "W/(m²·K)": "W/(m**2*K)", "W/(m2·K)": "W/(m**2*K)",
+                                   "W/m2/K": "W/(m**2*K)"}, "W/(m**2*K)"),
+    "area": ({"m2": "m**2", "m^2": "m**2", "m²": "m**2", "cm2": "cm**2", "cm^2": "cm**2",
+              "cm²": "cm**2"}, "m**2"),
 }
 PARSERS = {"volume": parse_volume, "mass": parse_mass, "density": parse_density,
            "filling ratio": parse_filling_ratio}

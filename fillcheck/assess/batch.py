@@ -18,6 +18,8 @@ from fillcheck import units
 from fillcheck.assess.cautions import cautions_for
 from fillcheck.assess.charge import largest_safe_densities
 from fillcheck.assess.checked_range import checked_ranges
+from fillcheck.assess.fill_process import fill_result, filling_findings, plan_fill_findings
+from fillcheck.assess.fill_process import limits_checked as fill_limits_checked
 from fillcheck.assess.findings import vessel_findings
 from fillcheck.assess.markings import apply_marking, rated_pressures
 from fillcheck.assess.mixture_findings import dropout_at_coldest, mixture_findings
@@ -300,6 +302,11 @@ def _assess_group(
         a.liquefied = bool(liquefied_at_ref[j]) if mixture else None
         a.findings, a.limits_checked = vessel_findings(v, a, p_j, system)
         apply_marking(v, a, rated[j])
+        if v.filling is not None:  # the fill process (assess.fill_process)
+            a.filling = fill_result(v, T_ref)
+            a.findings += filling_findings(v, a.filling, system)
+            a.findings += plan_fill_findings(v, a, T_ref, system)
+            a.limits_checked += fill_limits_checked(v, system)
         if mixture:
             a.composition = dict(zip(f.component_names, map(float, f.z), strict=True))
             a.dropout = dropout_at_coldest(f, path, slice(j * k, (j + 1) * k))

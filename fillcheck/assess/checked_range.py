@@ -1,10 +1,11 @@
 """The checked range: every temperature a vessel is known to pass through.
 
 It runs from the lowest of the minimum storage, fill and reference (settling) temperatures to the
-highest of the maximum storage and fill temperatures. A fill made hotter than the storage range
-is checked at its own state; a settled pressure read at the reference temperature is a state of
-the vessel too. Every limit is checked over the whole range, and the plan keeps every limit over
-it.
+highest of the maximum storage and fill temperatures and, with a fill process
+(``[vessel.filling]``), the gas temperature at the end of the fill. A fill made hotter than the
+storage range is checked at its own state; a settled pressure read at the reference temperature
+is a state of the vessel too. Every limit is checked over the whole range, and the plan keeps
+every limit over it.
 """
 
 from __future__ import annotations
@@ -27,6 +28,12 @@ def checked_range(v: VesselInput, T_ref: float) -> tuple[float, float]:
     if v.fill_temperature_K is not None:
         lows.append(v.fill_temperature_K)
         highs.append(v.fill_temperature_K)
+    if v.filling is not None:
+        from fillcheck.assess.fill_process import hot_end_temperature_K  # it imports batch
+
+        T_hot = hot_end_temperature_K(v, T_ref)
+        if T_hot is not None:
+            highs.append(T_hot)
     lo, hi = min(lows), max(highs)
     return lo, hi
 

@@ -111,6 +111,8 @@ class VesselAssessment:
     (assess.mixture_findings.Dropout), or None."""
     marking: Any = None
     """The cylinder's markings against its charge (assess.markings.MarkingResult), or None."""
+    filling: Any = None
+    """The fill process (assess.fill_process.FillResult) where ``[vessel.filling]`` is given."""
 
     @property
     def margin_to_allowable(self) -> float:

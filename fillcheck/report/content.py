@@ -157,6 +157,12 @@ def fill_plan(v: VesselAssessment, fmt: Formatter) -> str:
             f"To settle at {p(v.settled_pressure_Pa)} at {t(v.reference_temperature_K)}, stop the "
             f"fill at {p(v.fill_pressure_Pa)} while the gas is at {t(v.fill_temperature_K)}."
         )
+    r = v.filling  # the fill process (assess.fill_process): where to stop while hot
+    if r is not None and r.stop_pressure_Pa is not None:
+        out.append(
+            f"Filled as [vessel.filling] says, stop at {p(r.stop_pressure_Pa)} while the gas "
+            f"is at {t(r.stop_temperature_K)} (end of fill)."
+        )
     if v.max_safe_charge_kg is None:
         out.append("No charge keeps every limit entered: do not fill this vessel.")
     else:

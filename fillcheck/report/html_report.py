@@ -29,6 +29,7 @@ from fillcheck.report.content import (
     sorted_findings,
     verdict_sentence,
 )
+from fillcheck.report.fill_section import filling_chart_svg, filling_rows
 from fillcheck.report.permit_record import Record, sign_off_rows
 from fillcheck.report.terminal import header_rows, tally
 from fillcheck.report.wording import finding_message
@@ -82,7 +83,13 @@ def _vessel(v: VesselAssessment, fmt: Formatter) -> str:
         f'<span class="verdict {v.verdict}">{VERDICT_WORD[v.verdict]}</span></h2>'
         f"<h3>Inputs and model</h3>{_table(entered_rows(v))}"
         f"<h3>Results</h3>{_table(result_rows(v, fmt), numeric=True)}"
-        f'<p class="plan">{_e(fill_plan(v, fmt))}</p>'
+        + (
+            f"<h3>Fill process</h3>{_table(filling_rows(v, fmt), numeric=True)}"
+            f'<div class="chart">{filling_chart_svg(v, fmt.system, fmt.atm)}</div>'
+            if v.filling is not None
+            else ""
+        )
+        + f'<p class="plan">{_e(fill_plan(v, fmt))}</p>'
         f'<div class="chart">{chart}</div>'
         f"<h3>Findings</h3><table>{findings}</table>"
         f'<p class="verdict-line {v.verdict}"><b>{_e(verdict_sentence(v, fmt))}</b></p>'

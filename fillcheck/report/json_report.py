@@ -7,6 +7,7 @@ from typing import Any
 
 from fillcheck import __version__
 from fillcheck.assess.result import EndState, Finding, ScenarioAssessment, VesselAssessment
+from fillcheck.report.fill_section import filling_dict
 from fillcheck.report.permit_record import Record, record_json
 from fillcheck.report.wording import finding_message, limits_checked
 
@@ -104,6 +105,7 @@ def vessel_dict(v: VesselAssessment, atm: float = 101325.0) -> dict[str, Any]:
             "condensing_component": v.dropout.condensing,
         },
         **_marking(v),
+        "filling": filling_dict(v),
     }
 
 

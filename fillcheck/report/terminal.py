@@ -24,6 +24,7 @@ from fillcheck.report.content import (
     sorted_findings,
     verdict_sentence,
 )
+from fillcheck.report.fill_section import filling_curve_rows, filling_rows
 from fillcheck.report.permit_record import Record, record_rows, sign_off_rows
 from fillcheck.report.wording import finding_message
 
@@ -65,12 +66,27 @@ def _vessel_block(v: VesselAssessment, fmt: Formatter) -> Group:
             f.code,
             finding_message(f, fmt.system, fmt.atm),
         )
-    parts: list = [head, entered, res, Text(fill_plan(v, fmt), style="bold"), findings]
+    parts: list = [head, entered, res]
+    if v.filling is not None:  # the fill process (report.fill_section)
+        parts.append(_filling_table(v, fmt))
+    parts += [Text(fill_plan(v, fmt), style="bold"), findings]
     parts.append(Text(verdict_sentence(v, fmt), style=_VERDICT_STYLE[v.verdict]))
     if v.cautions:
         parts.append(Text("Cautions for this gas:", style="bold"))
         parts.extend(Text(f"  • {c}") for c in v.cautions)
     return Group(*parts)
+
+
+def _filling_table(v: VesselAssessment, fmt: Formatter) -> Table:
+    t = Table(title="Fill process", title_justify="left", show_edge=False, expand=False)
+    t.add_column("quantity")
+    t.add_column("value", justify="right")
+    for row in filling_rows(v, fmt):
+        t.add_row(*row)
+    curve = filling_curve_rows(v, fmt)
+    if curve:
+        t.add_row("curve (time, gas, pressure)", "; ".join(" ".join(c) for c in curve))
+    return t
 
 
 def render_terminal(

@@ -68,3 +68,6 @@ NESTING_MAX = 16
 TEXT_CHARS_MAX = 500
 """Any text in a scenario (an id, a title, a gas name, a quantity) and any register cell holds
 at most this many characters."""
+
+FILL_DURATION_MAX_s = 24 * 3600.0
+"""The longest fill duration taken ([vessel.filling] duration) [s]."""

@@ -26,6 +26,7 @@ from fillcheck.errors import InputError
 from fillcheck.fluids.catalog import FluidData, lookup, user_fluid
 from fillcheck.models.registry import has_reference_equation
 from fillcheck.scenario import bounds
+from fillcheck.scenario.filling_input import FillingInput, resolve_filling
 from fillcheck.scenario.markings import Marking, resolve_marking
 from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
 from fillcheck.scenario.source import read_input_with_digest
@@ -91,6 +92,8 @@ class VesselInput:
     mole %), shown on the report."""
     marking: Marking | None = None
     """What is stamped on the cylinder (scenario.markings), or None."""
+    filling: FillingInput | None = None
+    """How the fill is made (``[vessel.filling]``), or None."""
 
 
 @dataclass(frozen=True)
@@ -599,6 +602,15 @@ def _vessel(
     limits = _limits(v, where, P_atm, fluid, entered)
     marking = resolve_marking(v.marking, where, P_atm, entered)
     rules = _rules(v, where, P_atm, fluid, entered, marking)
+    filling = resolve_filling(
+        v.filling,
+        v.limits.max_fill_temperature,
+        where,
+        P_atm,
+        T_ref,
+        lambda text, fld: _temperature(text, fld, where, fluid),
+        entered,
+    )
     return VesselInput(
         str(v.id),
         fluid,
@@ -616,6 +628,7 @@ def _vessel(
         rules,
         notes,
         marking,
+        filling,
     )
 
 

@@ -11,6 +11,8 @@ from typing import Literal
 
 from pydantic import BaseModel, ConfigDict, Field, StrictFloat, StrictInt, StrictStr
 
+from fillcheck.scenario.filling_input import FillingSpec
+
 Quantity = StrictStr
 """A number with a unit, e.g. ``"200 barg"``."""
 
@@ -47,6 +49,8 @@ class LimitsSpec(_Strict):
     at 60 °F, e.g. "68 %" (instead of max_filling_ratio)."""
     min_vapour_space: Quantity | StrictFloat | StrictInt | None = None
     vapour_space_temperature: Quantity | None = None
+    max_fill_temperature: Quantity | None = None
+    """The peak gas temperature the fill must not pass (needs ``[vessel.filling]``)."""
 
 
 class RulesSpec(_Strict):
@@ -96,6 +100,8 @@ class VesselSpec(_Strict):
     limits: LimitsSpec
     rules: RulesSpec | None = None
     marking: MarkingSpec | None = None
+    filling: FillingSpec | None = None
+    """How the fill is made (scenario.filling_input): the fill process, INTERFACES.md §6."""
 
 
 class ScenarioSpec(_Strict):
