@@ -2,8 +2,10 @@
 
 Tests marked ``slow`` are the full sweeps. The default run (``-m 'not slow'``, what CI runs) also
 runs a fixed sample of them: one in ``SLOW_SAMPLE_EVERY`` of the parametrised cases, chosen by a
-checksum of the test's id, so every run takes the same cases and every slow test function keeps
-at least one. ``python -m pytest -m slow`` runs all of them.
+checksum of the test's id, so every run takes the same cases and every parametrised slow test
+keeps at least one. A slow test that is not parametrised (a long hypothesis run, whose default
+counterpart is a shorter run of the same property) is left to ``-m slow``.
+``python -m pytest -m slow`` runs all of them.
 """
 
 from __future__ import annotations
@@ -28,7 +30,7 @@ def pytest_collection_modifyitems(config: pytest.Config, items: list[pytest.Item
         return
     by_function: dict[str, list[pytest.Item]] = defaultdict(list)
     for item in items:
-        if item.get_closest_marker("slow") is not None:
+        if item.get_closest_marker("slow") is not None and "[" in item.nodeid:
             by_function[item.nodeid.split("[")[0]].append(item)
     for cases in by_function.values():
         chosen = [c for c in cases if _chosen(c.nodeid)] or cases[:1]
