@@ -88,8 +88,8 @@ MUTANTS: tuple[Mutant, ...] = (
     Mutant(
         "liquid-full-margin-sign",
         "fillcheck/assess/charge.py",
-        "rl = sat.rho_liquid * (1.0 - (_liquid_u(fluid) if uncertain else 0.0))",
-        "rl = sat.rho_liquid * (1.0 + (_liquid_u(fluid) if uncertain else 0.0))",
+        "rl = sat.rho_liquid * (1.0 - _liquid_u(fluid))",
+        "rl = sat.rho_liquid * (1.0 + _liquid_u(fluid))",
         "the built-in vapour-space bound takes the saturated liquid density less its uncertainty",
         SM + "test_built_in_vapour_space_plan_against_coolprop",
     ),
@@ -194,8 +194,8 @@ MUTANTS: tuple[Mutant, ...] = (
     Mutant(
         "plan-own-vapour-space-ignored",
         "fillcheck/assess/charge.py",
-        "r[own] = vapour_space_bound(fluid, Tv[own], frac[own], uncertain=False)",
-        "r[own] = vapour_space_bound(fluid, Tv[own], 0.0 * frac[own], uncertain=False)",
+        "r[own] = vapour_space_bound(fluid, Tv[own], frac[own], own=True)",
+        "r[own] = vapour_space_bound(fluid, Tv[own], 0.0 * frac[own], own=True)",
         "the plan keeps the scenario's own minimum vapour space at its own temperature",
         SM + "test_min_vapour_space_at_its_limit",
     ),
@@ -235,8 +235,8 @@ MUTANTS: tuple[Mutant, ...] = (
     Mutant(
         "reach-solver-loose",
         "fillcheck/assess/batch.py",
-        "tol = 1e-3 if mixture else 1e-6",
-        "tol = 1e-3 if mixture else 0.5",
+        "width=1e-3 if mixture else 1e-6,",
+        "width=1e-3 if mixture else 5.0,",
         "the temperature where a limit is reached is solved on the isochore itself",
         SM + "test_allowable_reached_at_against_coolprop",
     ),
@@ -284,8 +284,8 @@ MUTANTS: tuple[Mutant, ...] = (
     Mutant(
         "crossing-solver-loose",
         "fillcheck/thermo/vessel.py",
-        "done = (np.abs(fs) < 1e-13) | ((hi - lo) < 1e-9)",
-        "done = (np.abs(fs) < 1e-3) | ((hi - lo) < 1e-9)",
+        "ftol=1e-13,",
+        "ftol=1e-3,",
         "the liquid-full temperature a finding prints is the exact crossing",
         SM + "test_liquid_full_at_top_just_under_and_just_over",
     ),
