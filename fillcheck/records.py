@@ -56,7 +56,7 @@ def stream_register(
     rows: list[list[str]], name: str, system: UnitSystem = "metric"
 ) -> Iterator[dict[str, Any]]:
     """The vessels of a register's rows (header first, cells stripped), a chunk at a time."""
-    from fillcheck.scenario.register import check_columns
+    from fillcheck.scenario.register import check_columns, checked_rows
 
     if not rows:
         raise InputError(f"{name}: is empty; the first row must name the columns")
@@ -65,17 +65,10 @@ def stream_register(
     if len(rows) == 1:
         raise InputError(f"{name}: has a header but no vessels; add one vessel a row")
 
-    def records() -> Iterator[tuple[int, dict[str, str]]]:
-        for n, row in enumerate(rows[1:], start=2):
-            if not any(row):
-                raise InputError(f"{name}: row {n} is empty; remove it")
-            if len(row) != len(header):
-                raise InputError(
-                    f"{name}: row {n} has {len(row)} cells but the header has {len(header)} columns"
-                )
-            yield n, dict(zip(header, row, strict=True))
-
-    yield from _stream(records(), name, system, CHUNK_ROWS)
+    records = (
+        (n, dict(zip(header, row, strict=True))) for n, row in checked_rows(header, rows[1:], name)
+    )
+    yield from _stream(records, name, system, CHUNK_ROWS)
 
 
 def _stream(

@@ -109,7 +109,17 @@ def register_from_text(text: str, name: str, title: str | None = None) -> Scenar
         raise InputError(f"{name}: is empty; the first row must name the columns")
     header, records = rows[0], rows[1:]
     check_columns(header, name)
-    vessels = []
+    vessels = [row_vessel(header, row, name, n) for n, row in checked_rows(header, records, name)]
+    if not vessels:
+        raise InputError(f"{name}: has a header but no vessels; add one vessel a row")
+    return scenario_from_dict(
+        {"title": title, "vessel": vessels} if title else {"vessel": vessels}, name, FIELDS
+    )
+
+
+def checked_rows(header: list[str], records: list[list[str]], name: str):  # type: ignore[no-untyped-def]
+    """(row number, cells) of each record, refusing an empty row or one whose cell count
+    differs from the header's; row 1 is the header."""
     for n, row in enumerate(records, start=2):
         if not any(row):
             raise InputError(f"{name}: row {n} is empty; remove it")
@@ -117,12 +127,7 @@ def register_from_text(text: str, name: str, title: str | None = None) -> Scenar
             raise InputError(
                 f"{name}: row {n} has {len(row)} cells but the header has {len(header)} columns"
             )
-        vessels.append(row_vessel(header, row, name, n))
-    if not vessels:
-        raise InputError(f"{name}: has a header but no vessels; add one vessel a row")
-    return scenario_from_dict(
-        {"title": title, "vessel": vessels} if title else {"vessel": vessels}, name, FIELDS
-    )
+        yield n, row
 
 
 def check_columns(header: list[str], name: str) -> None:
