@@ -15,7 +15,7 @@ from collections.abc import Callable, Sequence
 import numpy as np
 
 from fillcheck import units
-from fillcheck.assess.cautions import cautions_for
+from fillcheck.assess.cautions import cautions_for, gas_facts
 from fillcheck.assess.charge import largest_safe_densities
 from fillcheck.assess.checked_range import checked_ranges
 from fillcheck.assess.fill_process import fill_result, filling_findings, plan_fill_findings
@@ -232,6 +232,7 @@ def _assess_group(
     T_upper = highest_temperature_K(f)
     rated = rated_pressures(f, vs, rho)
     results = []
+    facts = gas_facts(f)
     for j, v in enumerate(vs):
         p_j = VesselPath(
             TT[j],
@@ -314,7 +315,7 @@ def _assess_group(
         liquid = any(x.code in ("liquid-present", "liquid-full-at-top") for x in a.findings)
         near = any(x.code == "near-critical" for x in a.findings)
         a.cautions = cautions_for(
-            a.hazards,
+            facts,
             liquid=liquid if a.liquefied is None else a.liquefied,
             near_critical=near,
             cold_dropout=liquid and a.liquefied is False,

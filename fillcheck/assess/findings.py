@@ -23,7 +23,7 @@ from fillcheck.assess.uncertainty import pressure_uncertainty
 from fillcheck.thermo.vessel import VesselPath
 
 if TYPE_CHECKING:
-    from fillcheck.scenario.resolve import VesselInput
+    from fillcheck.scenario.resolve import Limits, VesselInput
 
 NEAR_CRITICAL_T = 0.03
 """|T/Tc − 1| below which a state counts as near-critical (with the density test) [-]."""
@@ -68,14 +68,7 @@ def vessel_findings(
     if lim.relief_set_pressure_Pa is not None:
         checked.append(f"relief set pressure {p(lim.relief_set_pressure_Pa)}")
         if P_top >= lim.relief_set_pressure_Pa:
-            out.append(
-                Finding(
-                    "relief-reached",
-                    "fail",
-                    f"the pressure reaches the relief set pressure {p(lim.relief_set_pressure_Pa)} "
-                    f"at {t(a.relief_reached_at_K)}: the relief device would open and vent gas",
-                )
-            )
+            out.append(_relief_finding(lim, a, path, p, t))
     if lim.max_filling_ratio_kg_m3 is not None:
         checked.append(f"maximum filling ratio {fr(lim.max_filling_ratio_kg_m3)}")
         if a.density_kg_m3 > lim.max_filling_ratio_kg_m3 * (1 + 1e-12):
@@ -312,6 +305,54 @@ def _rule_findings(
                 )
             )
     return out
+
+
+def relief_discharge(path: VesselPath, P_set: float) -> str:
+    """What a relief device set at P_set [Pa] lets out when it first opens along the path:
+    "gas" (a one-phase gas or supercritical state), "liquid" (liquid-full), or "vapour"
+    (two-phase: vapour from the vapour space, liquid where the valve is wetted)."""
+    i = int(np.argmax(path.P >= P_set))
+    phase = str(path.phase[i])
+    if phase == "liquid":
+        return "liquid"
+    return "vapour" if phase == "two-phase" else "gas"
+
+
+_DISCHARGE = {
+    "gas": "the relief device would open and vent gas",
+    "liquid": (
+        "the vessel is then full of liquid, so the relief device would open and discharge "
+        "liquid, which flashes to a large volume of cold gas"
+    ),
+    "vapour": (
+        "the relief device would open and vent vapour, or liquid where liquid wets it (a "
+        "vessel lying down or nearly full)"
+    ),
+}
+_DEVICE = {
+    "valve": "a relief valve recloses once the pressure falls below its reseat pressure",
+    "bursting disc": "a bursting disc does not reclose: the vessel empties",
+    None: "a relief valve recloses when the pressure falls; a bursting disc does not, and the "
+    "vessel empties",
+}
+
+
+def _relief_finding(
+    lim: Limits,
+    a: VesselAssessment,
+    path: VesselPath,
+    p: Callable[[float], str],
+    t: Callable[[float], str],
+) -> Finding:
+    P_set = float(lim.relief_set_pressure_Pa)  # type: ignore[arg-type]
+    out = relief_discharge(path, P_set)
+    return Finding(
+        "relief-reached",
+        "fail",
+        f"the pressure reaches the relief set pressure {p(P_set)} at "
+        f"{t(a.relief_reached_at_K)}: {_DISCHARGE[out]}; {_DEVICE[lim.relief_device]}",
+        data={"discharge": out, "relief_device": lim.relief_device},
+    )
 
 
 def _pct(x: float) -> str:

@@ -3,9 +3,12 @@
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Any, Literal
+from typing import TYPE_CHECKING, Any, Literal
 
 import numpy as np
+
+if TYPE_CHECKING:
+    from fillcheck.assess.cautions import Caution
 
 Severity = Literal["fail", "review", "warning", "info"]
 Verdict = Literal["pass", "fail", "review"]
@@ -100,7 +103,8 @@ class VesselAssessment:
     saturation_P_Pa: np.ndarray = field(default_factory=lambda: np.zeros(0))
     """The saturation curve near the storage range, for the chart (empty above Tc)."""
     findings: list[Finding] = field(default_factory=list)
-    cautions: list[str] = field(default_factory=list)
+    cautions: list[Caution] = field(default_factory=list)
+    """The cautions attached, each with its reason's facts (report.caution_text words them)."""
     liquefied: bool | None = None
     """For a mixture: whether it holds liquid at the reference temperature (a liquefied gas,
     filled by weight) rather than only in the cold; None for a pure gas."""

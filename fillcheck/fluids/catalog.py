@@ -61,6 +61,11 @@ _R = 8.314462618  # J/(mol K), exact SI value; used only for the user-gas densit
 _ATM = 101325.0  # Pa
 _IGNORED = str.maketrans("", "", "-_ ")  # characters lookup ignores
 
+DISSOLVED_GASES = {"acetylene": ("acetylene", "ethyne", "C2H2", "74-86-2")}
+"""Gases sold dissolved in a solvent held in a porous mass, with the names they go by (common
+practice, no source). Their charge and pressure follow the solvent and the mass, which no
+equation of state for the gas describes, so fillcheck refuses them by name."""
+
 
 class CatalogDataError(FillcheckError):
     """The catalog data file is malformed (a packaging fault, not a user error)."""
@@ -256,6 +261,17 @@ def available_fluids() -> list[str]:
     return [fluid.name for fluid in all_fluids()]
 
 
+def _refuse_dissolved(key: str) -> None:
+    """UnknownFluidError if the normalised identifier names a dissolved gas."""
+    for gas, names in DISSOLVED_GASES.items():
+        if key in {_normalize(n) for n in names}:
+            raise UnknownFluidError(
+                f"{gas} is filled dissolved in a solvent in a porous mass; dissolved-gas "
+                "cylinders are outside fillcheck, whose equations of state describe the gas "
+                "alone: follow the cylinder supplier's filling procedure"
+            )
+
+
 def lookup(identifier: str) -> FluidData:
     """Find a catalog gas by canonical name, formula, alias or CAS number.
 
@@ -280,6 +296,7 @@ def lookup(identifier: str) -> FluidData:
     key = _normalize(identifier)
     if key in index:
         return index[key]
+    _refuse_dissolved(key)
     listing = f"fillcheck knows {len(fluids)} gases: run 'fillcheck gases' to list them"
     if not key:
         raise UnknownFluidError(f"no gas named: the gas identifier is empty; {listing}")
@@ -350,6 +367,8 @@ def user_fluid(
     Zc from ω: Reid, Prausnitz, Poling (1987), The Properties of Gases and Liquids, 4th ed.,
     eq. for Zc from ω (from memory). Edmister (1958), Petroleum Refiner 37(4), 173 (from memory).
     """
+    if isinstance(name, str):
+        _refuse_dissolved(_normalize(name))
     problems: list[str] = []
     label = name.strip() if isinstance(name, str) else ""
     known = _catalog()[1].get(_normalize(label))

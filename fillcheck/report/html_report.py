@@ -17,6 +17,7 @@ from pathlib import Path
 from fillcheck import units
 from fillcheck.assess.result import ScenarioAssessment, VesselAssessment
 from fillcheck.errors import InputError
+from fillcheck.report.caution_text import caution_reason, caution_text
 from fillcheck.report.chart import margin_chart_svg, vessel_chart_svg
 from fillcheck.report.content import (
     CLOSING_CAUTION,
@@ -76,7 +77,10 @@ def _vessel(v: VesselAssessment, fmt: Formatter) -> str:
     chart = vessel_chart_svg(
         v, fmt.system, fmt.atm, v.allowable_pressure_Pa, v.relief_set_pressure_Pa
     )
-    cautions = "".join(f"<li>{_e(c)}</li>" for c in v.cautions)
+    cautions = "".join(
+        f'<li>{_e(caution_text(c))} <span class="why">Why: {_e(caution_reason(c))}.</span></li>'
+        for c in v.cautions
+    )
     count = f" ×{v.count}" if v.count > 1 else ""
     return (
         f'<section class="vessel"><h2>Vessel {_e(v.id)} — {_e(v.gas)}{_e(count)} '

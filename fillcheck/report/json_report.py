@@ -7,6 +7,7 @@ from typing import Any
 
 from fillcheck import __version__
 from fillcheck.assess.result import EndState, Finding, ScenarioAssessment, VesselAssessment
+from fillcheck.report.caution_text import caution_reason, caution_text
 from fillcheck.report.fill_section import filling_dict
 from fillcheck.report.permit_record import Record, record_json
 from fillcheck.report.wording import finding_message, limits_checked
@@ -93,7 +94,11 @@ def vessel_dict(v: VesselAssessment, atm: float = 101325.0) -> dict[str, Any]:
         },
         "limits_checked": limits_checked(v, "metric", atm),
         "findings": [_finding(f, atm) for f in v.findings],
-        "cautions": v.cautions,
+        "cautions": [caution_text(c) for c in v.cautions],
+        "caution_details": [
+            {"code": c.code, "text": caution_text(c), "reason": caution_reason(c)}
+            for c in v.cautions
+        ],
         "composition": v.composition,
         "liquid_dropout": None
         if v.dropout is None

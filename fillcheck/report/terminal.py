@@ -12,6 +12,7 @@ from rich.text import Text
 
 from fillcheck import __version__, units
 from fillcheck.assess.result import ScenarioAssessment, VesselAssessment
+from fillcheck.report.caution_text import caution_reason, caution_text
 from fillcheck.report.content import (
     CLOSING_CAUTION,
     DETAIL_LIMIT,
@@ -73,7 +74,9 @@ def _vessel_block(v: VesselAssessment, fmt: Formatter) -> Group:
     parts.append(Text(verdict_sentence(v, fmt), style=_VERDICT_STYLE[v.verdict]))
     if v.cautions:
         parts.append(Text("Cautions for this gas:", style="bold"))
-        parts.extend(Text(f"  • {c}") for c in v.cautions)
+        for c in v.cautions:
+            parts.append(Text(f"  • {caution_text(c)}"))
+            parts.append(Text(f"    Why: {caution_reason(c)}.", style="dim"))
     return Group(*parts)
 
 

@@ -33,6 +33,7 @@ COLUMNS: dict[str, str] = {
     "min_temperature": "storage.min_temperature",
     "allowable_pressure": "limits.allowable_pressure",
     "relief_set_pressure": "limits.relief_set_pressure",
+    "relief_device": "limits.relief_device",
     "max_filling_ratio": "limits.max_filling_ratio",
     "max_filling_density": "limits.max_filling_density",
     "working_pressure": "marking.working_pressure",

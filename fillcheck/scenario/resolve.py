@@ -56,6 +56,8 @@ class Limits:
     max_filling_ratio_kg_m3: float | None = None
     min_vapour_space: float | None = None
     vapour_space_temperature_K: float | None = None
+    relief_device: str | None = None
+    """"valve" or "bursting disc"; None where the scenario does not say."""
 
 
 @dataclass(frozen=True)
@@ -821,7 +823,14 @@ def _limits(
         vs_T = _temperature(
             str(lim.vapour_space_temperature), "limits.vapour_space_temperature", where, fluid
         )
-    return Limits(allow, relief, fr, vs, vs_T)
+    if lim.relief_device is not None:
+        if relief is None:
+            raise where.fail(
+                "limits.relief_device",
+                "names a relief device without its relief_set_pressure; give both or neither",
+            )
+        entered["limits.relief_device"] = lim.relief_device
+    return Limits(allow, relief, fr, vs, vs_T, lim.relief_device)
 
 
 def _pydantic_sentence(

@@ -43,6 +43,8 @@ class LimitsSpec(_Strict):
 
     allowable_pressure: Quantity
     relief_set_pressure: Quantity | None = None
+    relief_device: Literal["valve", "bursting disc"] | None = None
+    """What opens at the relief set pressure: a valve recloses, a bursting disc does not."""
     max_filling_ratio: Quantity | None = None
     max_filling_density: Quantity | StrictFloat | StrictInt | None = None
     """A US filling density: the charge as a percentage of the weight of water the vessel holds

@@ -22,6 +22,7 @@ import numpy as np
 from fillcheck.errors import ConvergenceError, InputError, ModelUnavailableError, StateError
 from fillcheck.fluids.accuracy import ModelError, accuracy_for
 from fillcheck.fluids.catalog import FluidData, lookup
+from fillcheck.fluids.classification import MixtureClass, classify
 from fillcheck.fluids.mixing import cubic_kij, cubic_kij_matrix
 from fillcheck.models.base import FloatArray
 from fillcheck.models.cubic import CubicComponent
@@ -58,26 +59,25 @@ class MixtureData:
     hazards: frozenset[str]
     user_defined: bool = False
     components: tuple[FluidData, ...] = field(default=(), repr=False)
-
-
-OXYGEN_ENRICHED = 0.235
-"""Mole fraction of oxygen above which a mixture counts as oxidizing here (the usual threshold
-of oxygen enrichment in gas-safety practice; common practice, no source) [-]."""
+    classification: MixtureClass | None = field(default=None, repr=False)
 
 
 def mixture_hazards(components: Sequence[FluidData], z: np.ndarray) -> frozenset[str]:
-    """The hazard classes a mixture's cautions are printed for: every component's, except that
-    oxygen at or below OXYGEN_ENRICHED (argon with 2 % oxygen, say) does not make the mixture
-    an oxidizer. A simplification: a supplier classifies a mixture by its own rules (ISO 10156
-    for oxidizing and flammable mixtures), and the safety data sheet decides."""
-    out: set[str] = set()
-    for c, x in zip(components, z, strict=True):
-        hz = set(c.hazards)
-        if c.name == "oxygen" and x <= OXYGEN_ENRICHED:
-            hz.discard("oxidizing")
-            hz.add("asphyxiant")
-        out |= hz
-    return frozenset(out)
+    """The hazard classes of a mixture from its composition, by the published methods for gas
+    mixtures (:func:`fillcheck.fluids.classification.classify`: ISO 10156 for flammable and
+    oxidizing, ISO 817 for a numbered refrigerant blend). The supplier's safety data sheet
+    decides; these classes choose the cautions printed."""
+    return classify_mixture(components, z).hazards
+
+
+def classify_mixture(components: Sequence[FluidData], z: np.ndarray) -> MixtureClass:
+    """The full classification of a mixture of catalog gases at mole fractions z [-]."""
+    return classify(
+        [c.name for c in components],
+        np.asarray(z, dtype=float),
+        np.array([c.molar_mass_kg_mol for c in components]),
+        [c.hazards for c in components],
+    )
 
 
 def _publication(source: str) -> str:
@@ -134,6 +134,7 @@ class MixtureFluid:
         self.is_reference = self.model == "reference"
         T_r, rho_r = self.mixture.reducing(self.z)
         self.T_min_saturation = max(c.triple_point_temperature_K for c in self.components)
+        self.classification = classify_mixture(self.components, self.z)
         self.data = MixtureData(
             name=self.name,
             sources={  # each figure's source, component by component
@@ -141,8 +142,9 @@ class MixtureFluid:
                 for k in self.components[0].sources
                 if all(k in c.sources for c in self.components)
             },
-            hazards=mixture_hazards(self.components, self.z),
+            hazards=self.classification.hazards,
             components=self.components,
+            classification=self.classification,
         )
         self._pseudo = (float(T_r), float(rho_r))
         self.critical = CriticalPoint(float(T_r), float("nan"), float(rho_r) * self.molar_mass)
