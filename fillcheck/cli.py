@@ -311,6 +311,13 @@ def stop_table_command(
     start: Annotated[str, typer.Option("--from", help="Lowest gas temperature.")] = "-10 degC",
     stop: Annotated[str, typer.Option("--to", help="Highest gas temperature.")] = "60 degC",
     step: Annotated[str, typer.Option("--step", help="Temperature step.")] = "5 K",
+    from_fill: Annotated[
+        bool,
+        typer.Option(
+            "--from-fill",
+            help="Gas temperatures from each vessel's fill process: ambient to end of fill.",
+        ),
+    ] = False,
     json_out: Annotated[bool, typer.Option("--json", help="JSON instead of the table.")] = False,
     units: Annotated[
         Units | None, typer.Option("--units", help="Display units (default: the scenario's).")
@@ -325,27 +332,47 @@ def stop_table_command(
     Examples:
       fillcheck stop-table scenarios/welding_supply_refill.toml --vessel AR-50-014
       fillcheck stop-table scenarios/hydrogen_bank.toml --from "0 degC" --to "50 degC" --step "10 K"
+      fillcheck stop-table scenarios/nitrogen_fast_fill.toml --from-fill
     """
+    import dataclasses
+
     import numpy as np
 
     from fillcheck import units as u
-    from fillcheck.assess.planning import stop_table
+    from fillcheck.assess.planning import fill_temperatures, stop_table
     from fillcheck.report.planning_report import planning_json, render_stop_tables
     from fillcheck.scenario.resolve import load_scenario, option_temperature
 
     with _guarded("the table", file):
         sc = load_scenario(file)
         picked = _pick(sc, vessel)
-        for v in picked:  # within every vessel's storage-temperature bounds
-            lo = option_temperature(sc, v, "--from", start)
-            hi = option_temperature(sc, v, "--to", stop)
         dT = _option(u.parse_temperature_difference, step, "--step")
-        if not (hi > lo and dT > 0):
-            raise InputError(f"--from '{start}' must be below --to '{stop}' and --step positive")
-        if (hi - lo) / dT > 400:
-            raise InputError(f"--step '{step}' gives more than 400 rows; choose a larger step")
-        temps = np.arange(lo, hi + 1e-9, dT)
-        tables = [stop_table(v, sc.reference_temperature_K, temps) for v in picked]
+        if from_fill:
+            if not dT > 0:
+                raise InputError(f"--step '{step}' must be positive")
+            tables = []
+            if vessel is None:  # the vessels whose fill process is described
+                picked = [v for v in picked if v.filling is not None] or picked[:1]
+            for v in picked:
+                temps, T_end = fill_temperatures(v, sc.reference_temperature_K, dT)
+                if temps.size > 400:
+                    raise InputError(
+                        f"--step '{step}' gives more than 400 rows; choose a larger step"
+                    )
+                st = stop_table(v, sc.reference_temperature_K, temps)
+                tables.append(dataclasses.replace(st, fill_end_temperature_K=T_end))
+        else:
+            for v in picked:  # within every vessel's storage-temperature bounds
+                lo = option_temperature(sc, v, "--from", start)
+                hi = option_temperature(sc, v, "--to", stop)
+            if not (hi > lo and dT > 0):
+                raise InputError(
+                    f"--from '{start}' must be below --to '{stop}' and --step positive"
+                )
+            if (hi - lo) / dT > 400:
+                raise InputError(f"--step '{step}' gives more than 400 rows; choose a larger step")
+            temps = np.arange(lo, hi + 1e-9, dT)
+            tables = [stop_table(v, sc.reference_temperature_K, temps) for v in picked]
         record = _record(sc, file)
     if json_out:
         typer.echo(planning_json(tables, record))

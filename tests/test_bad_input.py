@@ -57,7 +57,7 @@ def vessel(**changes: str | None) -> str:
 def scenario(*vessels: str, head: str = "") -> str:
     """Scenario text: top-level keys and ``[[gas]]`` tables first, then the vessels."""
     body = "\n".join(vessels) if vessels else vessel()
-    return f'title = "Harrow Lane gas store, weekly check"\n{head}\n{body}'
+    return f'title = "Brevindle Lane gas store, weekly check"\n{head}\n{body}'
 
 
 def user_gas(molar_mass: str = '"39.9 g/mol"', acentric_factor: str = "0.0", **extra: str) -> str:
@@ -490,7 +490,7 @@ CASES: list[Bad] = [
     ),
     Bad(
         "unknown_top_level_key",
-        scenario(head='titel = "Harrow Lane"'),
+        scenario(head='titel = "Brevindle Lane"'),
         "titel",
         (("spelling", "not a key", "unknown"),),
         vessel_id=None,
@@ -518,7 +518,7 @@ CASES: list[Bad] = [
     ),
     Bad(
         "no_vessel_at_all",
-        'title = "Harrow Lane, empty store"\n',
+        'title = "Brevindle Lane, empty store"\n',
         "vessel",
         (("[[vessel]]", "required", "missing"),),
         vessel_id=None,

@@ -34,7 +34,7 @@ ATM = 101_325.0
 # ---------------------------------------------------------------------------------------------
 
 PASSING = """
-title = "Marlow Fabrication, argon rack"
+title = "Quorvath Fabrication, argon rack"
 
 [[vessel]]
 id = "AR-50-201"
@@ -46,7 +46,7 @@ limits = { allowable_pressure = "300 barg" }
 """
 
 FAILING = """
-title = "Marlow Fabrication, nitrogen bank"
+title = "Quorvath Fabrication, nitrogen bank"
 
 [[vessel]]
 id = "N2-50-202"
@@ -58,7 +58,7 @@ limits = { allowable_pressure = "300 barg" }
 """
 
 REVIEW = """
-title = "Marlow Fabrication, test gas"
+title = "Quorvath Fabrication, test gas"
 
 [[gas]]
 name = "marlow test gas"
@@ -561,7 +561,7 @@ def test_report_has_date_and_version(tmp_path: Path) -> None:
     after = dt.date.today()
     assert before.isoformat() in text or after.isoformat() in text
     assert f"fillcheck {fillcheck.__version__}" in text
-    assert "Marlow Fabrication, argon rack" in text
+    assert "Quorvath Fabrication, argon rack" in text
     assert "scenario.toml" in text
 
 

@@ -502,7 +502,7 @@ def test_control_characters_reach_no_renderer_raw(tmp_path: Path) -> None:
         vessel(id='"AR\\u001b[2J-1\\u009b"'),
         vessel(id='"N2\\n-2"', gas='"test\\u001b[31mgas"'),
         head=gas,
-    ).replace('title = "Harrow Lane', 'title = "Harrow\\tLane\\u001b]0;pwned\\u0007')
+    ).replace('title = "Brevindle Lane', 'title = "Brevindle\\tLane\\u001b]0;pwned\\u0007')
     p = tmp_path / FILE_NAME
     p.write_text(text, encoding="utf-8")
     for extra in ((), ("--json",)):
@@ -514,7 +514,7 @@ def test_control_characters_reach_no_renderer_raw(tmp_path: Path) -> None:
     data = json.loads(run_in_process(p, "--json")[1])
     assert data["vessels"][0]["id"] == "AR\\x1b[2J-1\\x9b"
     assert data["vessels"][1]["id"] == "N2\\n-2"
-    assert data["title"].startswith("Harrow\\tLane\\x1b]0;pwned\\x07")
+    assert data["title"].startswith("Brevindle\\tLane\\x1b]0;pwned\\x07")
     html = tmp_path / "report.html"
     code, _, err, exc = run_in_process(p, "--html", str(html))
     assert exc is None and code in (0, 1), err

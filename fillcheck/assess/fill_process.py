@@ -82,6 +82,7 @@ def _spec(f: FillingInput, steps: int | None = None) -> FillSpec:
         heat_transfer=f.heat_transfer,  # type: ignore[arg-type]
         gas_wall_conductance_W_K=f.gas_wall_conductance_W_K,
         wall_ambient_conductance_W_K=f.wall_ambient_conductance_W_K,
+        flow=f.flow,  # type: ignore[arg-type]
         **kw,
     )
 

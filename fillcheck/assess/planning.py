@@ -55,10 +55,40 @@ class StopTable:
     max_safe_charge_kg: float | None
     governing_limit: str | None
     rows: list[StopRow]
+    fill_end_temperature_K: float | None = None
+    """Where the table's temperatures come from the fill process (``stop-table --from-fill``):
+    the computed gas temperature at the end of the fill [K], one of the rows."""
     over_plan: bool = False
     """Whether the planned charge is above the largest charge keeping every limit before that
     is rounded down to the printed figure (a fill entered exactly at a marked working pressure
     is not over, though the printed figure lies up to 10 g below it)."""
+
+
+def fill_temperatures(v: VesselInput, T_ref: float, step_K: float) -> tuple[np.ndarray, float]:
+    """The gas temperatures [K] a stop table takes from the vessel's fill process: from the
+    ambient temperature (a slow fill, the gas cooled to the bay) to the computed end-of-fill
+    temperature, in ``step_K``, that end temperature included; and the end temperature.
+
+    Raises InputError where the vessel has no ``[vessel.filling]`` or its fill is not computed."""
+    from fillcheck.assess.fill_process import fill_result
+    from fillcheck.errors import InputError
+
+    if v.filling is None:
+        raise InputError(
+            f"vessel {v.id}: --from-fill takes the gas temperatures from the fill process, but "
+            "the vessel has no [vessel.filling] table; add one or give --from and --to"
+        )
+    r = fill_result(v, T_ref)
+    T_end = r.stop_temperature_K if r is not None else None
+    if T_end is None:
+        raise InputError(
+            f"vessel {v.id}: the fill process does not reach the charge the fill asks for, so "
+            "it gives no end-of-fill temperature; give --from and --to"
+        )
+    lo = min(v.filling.ambient_temperature_K, T_end)
+    T = np.arange(lo, T_end, step_K) if T_end > lo else np.zeros(0)
+    T = T[T < T_end - 0.25 * step_K]  # no row a hair's breadth from the end temperature
+    return np.append(T, T_end), float(T_end)
 
 
 def stop_table(v: VesselInput, T_ref: float, temperatures_K: np.ndarray) -> StopTable:

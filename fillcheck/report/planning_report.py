@@ -94,6 +94,11 @@ def render_stop_tables(
         for r in st.rows:
             weigh = r.weigh or r.phase in ("two-phase", "liquid")
             shown = "weigh the fill" if weigh else p(r.stop_pressure_Pa)
+            if (
+                st.fill_end_temperature_K is not None
+                and r.gas_temperature_K == st.fill_end_temperature_K
+            ):
+                shown += " (end of fill, computed)"
             if r.outside_range and not weigh:
                 shown += " (REVIEW: outside the model's range)"
             table.add_row(
@@ -104,6 +109,11 @@ def render_stop_tables(
             )
         console.print(table)
         console.print(f"Model: {st.model_name} ({st.model}); {st.model_source}")
+        if st.fill_end_temperature_K is not None:
+            console.print(
+                f"Gas temperatures from the fill process: from the ambient temperature (a slow "
+                f"fill) to {t(st.fill_end_temperature_K)}, the computed end of this fill."
+            )
         if any(r.outside_range for r in st.rows):
             console.print(
                 Text(

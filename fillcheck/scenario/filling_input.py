@@ -51,9 +51,10 @@ class StartSpec(_Strict):
 
 
 class WallSpec(_Strict):
-    """The vessel's wall: its mass and either its specific heat or a material name."""
+    """The vessel's wall: its mass (omitted: the marked tare) and either its specific heat or a
+    material name."""
 
-    mass: Quantity
+    mass: Quantity | None = None
     specific_heat: Quantity | None = None
     material: Literal["steel", "aluminium", "composite"] | None = None
 
@@ -75,6 +76,9 @@ class FillingSpec(_Strict):
     switch_difference: Quantity | None = None
     start: StartSpec | None = None
     duration: Quantity
+    flow: Literal["constant-mass", "pressure-ramp"] | None = None
+    """How the charge enters over the duration: at a constant mass flow (default), or so that
+    the vessel's pressure rises at a constant rate."""
     ambient_temperature: Quantity | None = None
     wall: WallSpec | None = None
     heat_transfer: Literal["adiabatic", "lumped"] | HeatTransferSpec | None = None
@@ -127,6 +131,8 @@ class FillingInput:
     wall_heat_capacity_J_K: float
     wall_source: str | None
     heat_transfer: str
+    flow: str = "constant-mass"
+    """"constant-mass" or "pressure-ramp" (see FillingSpec.flow)."""
     gas_wall_conductance_W_K: float = 0.0
     wall_ambient_conductance_W_K: float = 0.0
     max_fill_temperature_K: float | None = None
@@ -145,10 +151,12 @@ def resolve_filling(
     T_ref: float,
     temperature: Any,
     entered: dict[str, str],
+    tare_mass_kg: float | None = None,
 ) -> FillingInput | None:
     """Read ``[vessel.filling]`` into SI, refusing bad input in one sentence (exit 2).
 
-    ``temperature(text, field)`` reads a gas temperature with the vessel's own bounds."""
+    ``temperature(text, field)`` reads a gas temperature with the vessel's own bounds;
+    ``tare_mass_kg`` is the marked tare [kg], the wall's mass where the wall gives none."""
     if spec is None:
         if max_fill_temperature is not None:
             raise where.fail(
@@ -171,6 +179,12 @@ def resolve_filling(
         raise where.fail(
             "filling.switch_difference",
             "is for a cascade of banks; remove it or give cascade = [ ... ]",
+        )
+    if spec.flow == "pressure-ramp" and spec.cascade is not None:
+        raise where.fail(
+            "filling.flow",
+            "'pressure-ramp' is for a supply or a compressor; a cascade's flow follows its "
+            "banks, so remove flow or give a supply",
         )
     if spec.cascade is not None:
         source, P_supply, T_in = "cascade", None, T_ref
@@ -241,8 +255,10 @@ def resolve_filling(
             f'{bounds.FILL_DURATION_MAX_s / 3600:.0f} h, e.g. "4 min"',
         )
     Cw, wall_source = 0.0, None
+    if spec.flow is not None:
+        entered["filling.flow"] = spec.flow
     if spec.wall is not None:
-        Cw, wall_source = _wall(spec.wall, where, entered)
+        Cw, wall_source = _wall(spec.wall, where, entered, tare_mass_kg)
     ht = spec.heat_transfer
     Ggw = Gwa = 0.0
     if ht is None:
@@ -288,6 +304,7 @@ def resolve_filling(
         wall_heat_capacity_J_K=Cw,
         wall_source=wall_source,
         heat_transfer=kind,
+        flow=spec.flow or "constant-mass",
         gas_wall_conductance_W_K=Ggw,
         wall_ambient_conductance_W_K=Gwa,
         max_fill_temperature_K=limit_K,
@@ -329,8 +346,23 @@ def _banks(
     return tuple(out)
 
 
-def _wall(w: WallSpec, where: Any, entered: dict[str, str]) -> tuple[float, str]:
-    """The wall's heat capacity m·c [J/K] and where its specific heat comes from."""
+def _wall(
+    w: WallSpec, where: Any, entered: dict[str, str], tare_mass_kg: float | None
+) -> tuple[float, str]:
+    """The wall's heat capacity m·c [J/K] and where its specific heat comes from.
+
+    Without a mass the wall is the marked tare: the empty cylinder with its valve, the valve
+    counted with the wall (it shares some of the heat; common practice, no source)."""
+    if w.mass is None:
+        if tare_mass_kg is None:
+            raise where.fail(
+                "filling.wall.mass",
+                "is missing and the cylinder has no marked tare to take it from; give "
+                'wall = { mass = "58 kg", ... } or marking = { tare_mass = "58 kg" }',
+            )
+        mass = tare_mass_kg
+        entered["filling.wall.mass"] = f"the marked tare, {tare_mass_kg:.4g} kg"
+        return _wall_capacity(w, mass, where, entered, "wall mass from the marked tare")
     entered["filling.wall.mass"] = w.mass
     mass = where.run("filling.wall.mass", units.parse_mass, w.mass)
     if not 0.0 < mass <= bounds.MASS_MAX_kg:
@@ -338,6 +370,14 @@ def _wall(w: WallSpec, where: Any, entered: dict[str, str]) -> tuple[float, str]
             "filling.wall.mass",
             f"'{w.mass}' is not a wall's mass; give a mass above zero, e.g. \"58 kg\"",
         )
+    return _wall_capacity(w, mass, where, entered, "")
+
+
+def _wall_capacity(
+    w: WallSpec, mass: float, where: Any, entered: dict[str, str], note: str
+) -> tuple[float, str]:
+    """m·c [J/K] of a wall of ``mass`` [kg] and the source of its specific heat."""
+    said = f"; {note}" if note else ""
     if (w.specific_heat is None) == (w.material is None):
         what = "both" if w.material is not None else "neither"
         raise where.fail(
@@ -348,7 +388,7 @@ def _wall(w: WallSpec, where: Any, entered: dict[str, str]) -> tuple[float, str]
     if w.material is not None:
         entered["filling.wall.material"] = w.material
         m = WALL_MATERIALS[w.material]
-        return mass * m.specific_heat_J_kgK, m.source
+        return mass * m.specific_heat_J_kgK, m.source + said
     assert w.specific_heat is not None
     entered["filling.wall.specific_heat"] = w.specific_heat
     c = where.run("filling.wall.specific_heat", units.parse_specific_heat, w.specific_heat)
@@ -358,7 +398,7 @@ def _wall(w: WallSpec, where: Any, entered: dict[str, str]) -> tuple[float, str]
             f"'{w.specific_heat}' is not a solid's specific heat; metals and composites lie "
             'between 0.05 and 5 kJ/(kg K) (steel about "0.48 kJ/(kg K)")',
         )
-    return mass * c, "as entered"
+    return mass * c, "as entered" + said
 
 
 def _two_node(ht: HeatTransferSpec, where: Any, entered: dict[str, str]) -> tuple[float, float]:

@@ -612,6 +612,7 @@ def _vessel(
         T_ref,
         lambda text, fld: _temperature(text, fld, where, fluid),
         entered,
+        None if marking is None else marking.tare_mass_kg,
     )
     return VesselInput(
         str(v.id),

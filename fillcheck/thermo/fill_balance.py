@@ -53,6 +53,7 @@ from fillcheck.thermo.bracketed import illinois
 from fillcheck.thermo.limits import highest_temperature_K
 
 HeatTransfer = Literal["adiabatic", "lumped", "two-node"]
+Flow = Literal["constant-mass", "pressure-ramp"]
 Source = Literal["supply", "compressor", "cascade"]
 
 DEFAULT_STEPS = 120
@@ -64,6 +65,22 @@ T_WIDTH_K = 1e-9
 """The bracket width the temperature of each step is solved to [K]."""
 COMPRESSOR_PASSES = 4
 """Fixed-point passes for a compressor's delivery enthalpy at each step's mean pressure."""
+RAMP_PASSES = 12
+"""Fixed-point passes at most for the times of a pressure-ramp fill with the two-node model
+(the times move the heat exchanged, which moves the pressures); stops when no time moves by
+more than RAMP_TOLERANCE of the duration."""
+RAMP_TOLERANCE = 1e-9
+"""Relative change of the times [-] at which the pressure-ramp iteration stops."""
+
+
+def ramp_times(P: np.ndarray, duration_s: float) -> np.ndarray:
+    """The times [s] at which a fill whose pressure rises at a constant rate from P[0] to P[-1]
+    over ``duration_s`` passes the pressures P [Pa] (made non-decreasing first)."""
+    P = np.maximum.accumulate(np.asarray(P, dtype=float))
+    span = P[-1] - P[0]
+    if not span > 0.0:
+        return np.linspace(0.0, duration_s, P.size)
+    return duration_s * (P - P[0]) / span
 
 
 class MixtureIdealGas:
@@ -179,7 +196,9 @@ class FillSpec:
     inlet_temperature_K : the supply's temperature, or the compressor's delivery temperature
     supply_pressure_Pa : the supply's pressure (a valve supply only) [Pa]
     start_temperature_K, start_pressure_Pa : the residual gas before the fill
-    duration_s : the fill's duration at constant mass flow [s]
+    duration_s : the fill's duration [s]
+    flow : "constant-mass" (equal mass per time step) or "pressure-ramp" (the vessel's pressure
+        rising at a constant rate: the time of each step follows its pressure)
     ambient_temperature_K : for the two-node model's heat to the ambient [K]
     wall_heat_capacity_J_K : m_w·c_w, 0 for no wall [J/K]
     heat_transfer : "adiabatic" | "lumped" | "two-node"
@@ -198,6 +217,7 @@ class FillSpec:
     gas_wall_conductance_W_K: float = 0.0
     wall_ambient_conductance_W_K: float = 0.0
     steps: int = DEFAULT_STEPS
+    flow: Flow = "constant-mass"
 
 
 @dataclass
@@ -317,7 +337,14 @@ def fill_curve(fluid: Any, V_m3: float, n_end_mol: float, spec: FillSpec) -> Fil
     E0 = n1 * u1 + Cw * T1
     dn = np.diff(n)
     if spec.heat_transfer == "two-node":
-        return _two_node(pr, fluid, spec, t, n, rho, T1, E0, Cw)
+        curve = _two_node(pr, fluid, spec, t, n, rho, T1, E0, Cw)
+        for _ in range(RAMP_PASSES if spec.flow == "pressure-ramp" else 0):
+            t_new = ramp_times(curve.pressure_Pa, spec.duration_s)
+            moved = float(np.max(np.abs(t_new - curve.time_s)))
+            curve = _two_node(pr, fluid, spec, t_new, n, rho, T1, E0, Cw)
+            if moved <= RAMP_TOLERANCE * spec.duration_s:
+                break
+        return curve
     if spec.source == "supply":
         h_in = np.full(N, float(pr.h_TP(spec.inlet_temperature_K, spec.supply_pressure_Pa)))
         passes = 1
@@ -337,6 +364,8 @@ def fill_curve(fluid: Any, V_m3: float, n_end_mol: float, spec: FillSpec) -> Fil
         T = np.concatenate([[T1], _solve_T(energy, lo, hi, "a fill at constant mass flow")])
         P = pr.pressure_or_zero(T, rho)
     E = _gas_energy(pr, n, T, rho) + Cw * T
+    if spec.flow == "pressure-ramp":  # no heat leaves: the states depend on the mass alone
+        t = ramp_times(P, spec.duration_s)
     return FillCurve(
         time_s=t,
         moles=n,
