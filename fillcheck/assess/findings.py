@@ -17,8 +17,8 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from fillcheck import units
-from fillcheck.assess.result import Finding, VesselAssessment
-from fillcheck.assess.rules import RULES_SOURCE, rule_limits
+from fillcheck.assess.result import Finding, RuleCheck, VesselAssessment, pressure_margin
+from fillcheck.assess.rules import RULES_PUBLICATION, VERIFY_EDITION, rule_limits
 from fillcheck.assess.uncertainty import pressure_uncertainty
 from fillcheck.thermo.vessel import VesselPath
 
@@ -96,9 +96,9 @@ def vessel_findings(
         err = me.saturated_liquid_density if me is not None else None
         within = err is not None and 0.0 < liquid < 1.0 and abs(allowed / liquid - 1.0) < err
         said = (
-            f"at {t(Tv)} liquid fills {liquid:.1%} of the vessel, leaving "
-            f"{max(0.0, 1 - liquid):.1%} vapour space; at least {_pct(lim.min_vapour_space)} "
-            "is required"
+            f"at {t(Tv)} liquid fills {100.0 * liquid:.1f} % of the vessel, leaving "
+            f"{100.0 * max(0.0, 1 - liquid):.1f} % vapour space; at least "
+            f"{_pct(lim.min_vapour_space)} is required"
         )
         if within:
             out.append(
@@ -260,8 +260,8 @@ def _margin(
         )
     code = "margin-" + name.split()[0]
     sign = "+" if margin >= 0 else "-"
-    gauge_limit = limit - v.atmospheric_pressure_Pa
-    share = f"{margin / gauge_limit:+.1%} of the gauge limit" if gauge_limit > 0 else ""
+    share_of_gauge = pressure_margin(limit, P_top, v.atmospheric_pressure_Pa)
+    share = "" if np.isnan(share_of_gauge) else f"{share_of_gauge:+.1%} of the gauge limit"
     return Finding(
         code,
         "info",
@@ -289,13 +289,16 @@ def _rule_findings(
             "rule-set",
             "info",
             f"rule set '{v.rules.set}' with test pressure {p(v.rules.test_pressure_Pa)}, "
-            f"an example after {RULES_SOURCE}",
+            f"an example after {RULES_PUBLICATION}: {VERIFY_EDITION}",
         )
     ]
     rho = a.density_kg_m3 / v.fluid.molar_mass
     M = v.fluid.molar_mass
     for r in rule_limits(v.fluid, v.rules.set, v.rules.test_pressure_Pa, v.atmospheric_pressure_Pa):
         checked.append(f"{v.rules.set}: {r.text}")
+        a.rule_checks.append(
+            RuleCheck(v.rules.set, r.text, None if r.density_mol is None else r.density_mol * M)
+        )
         if r.density_mol is None or rho > r.density_mol * (1 + 1e-12):
             out.append(
                 Finding(

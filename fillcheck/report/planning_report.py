@@ -46,6 +46,19 @@ def render_stop_tables(
     record: Record | None = None,
 ) -> None:
     """Print one stop-fill table per vessel, made to hang at the filling station."""
+    from fillcheck.report.terminal import trimmed
+
+    with trimmed(console):
+        _stop_tables(tables, console, system, atm, record)
+
+
+def _stop_tables(
+    tables: list[StopTable],
+    console: Console,
+    system: units.UnitSystem,
+    atm: float,
+    record: Record | None,
+) -> None:
 
     def p(x: float | None) -> str:
         return "—" if x is None else units.format_pressure(x, system, atmospheric_pressure_Pa=atm)
@@ -75,7 +88,12 @@ def render_stop_tables(
                 console.print(
                     Text(
                         "The planned charge is ABOVE the largest charge within the limits: do "
-                        "not fill to this plan; use the right-hand column.",
+                        "not fill to this plan; "
+                        + (
+                            "fill at most the largest charge."
+                            if st.by_weight
+                            else "use the right-hand column."
+                        ),
                         style="bold red",
                     )
                 )
@@ -86,6 +104,10 @@ def render_stop_tables(
                     style="bold red",
                 )
             )
+        if st.by_weight:
+            console.print(Text(by_weight_line(st, system), style="bold"))
+            console.print(f"Model: {st.model_name} ({st.model}); {st.model_source}")
+            continue
         table = Table(show_edge=True)
         table.add_column("gas temperature", justify="right")
         table.add_column("stop the fill at", justify="right")
@@ -108,7 +130,8 @@ def render_stop_tables(
             console.print(
                 Text(
                     "REVIEW: some stop pressures lie outside the range where the model's "
-                    "numbers are vouched for; no safe stop pressure is printed there.",
+                    "numbers are vouched for; no stop pressure for the largest charge is "
+                    "printed there.",
                     style="bold",
                 )
             )
@@ -123,6 +146,32 @@ def render_stop_tables(
     _foot(console, record)
 
 
+def by_weight_line(st: StopTable, system: units.UnitSystem) -> str:
+    """The one line of a vessel filled by weight: stop by the scale, at tare + charge where the
+    tare is marked (the largest charge's reading rounded down, like the charge itself)."""
+    target = units.format_mass(st.target_charge_kg, system)
+    if st.tare_mass_kg is None:
+        said = (
+            f"Filled by weight: stop the fill when the scale shows {target} of gas added "
+            "(no tare is marked: weigh the empty vessel first and add it)"
+        )
+        if st.max_safe_charge_kg is not None:
+            said += (
+                f"; never more than {units.format_mass(st.max_safe_charge_kg, system, down=True)}"
+            )
+        return said + "."
+    gross = units.format_mass(st.tare_mass_kg + st.target_charge_kg, system)
+    tare = units.format_mass(st.tare_mass_kg, system)
+    said = (
+        f"Filled by weight: stop the fill at a scale reading of {gross} "
+        f"(marked tare {tare} + {target})"
+    )
+    if st.max_safe_charge_kg is not None:
+        top = units.format_mass(st.tare_mass_kg + st.max_safe_charge_kg, system, down=True)
+        said += f"; never above {top} (tare + the largest charge within the limits)"
+    return said + ". No table of stop pressures: the scale, not the gauge, measures this charge."
+
+
 def render_reading(
     r: Reading,
     console: Console,
@@ -131,6 +180,19 @@ def render_reading(
     record: Record | None = None,
 ) -> None:
     """Print what a gauge reading means for the vessel."""
+    from fillcheck.report.terminal import trimmed
+
+    with trimmed(console):
+        _reading(r, console, system, atm, record)
+
+
+def _reading(
+    r: Reading,
+    console: Console,
+    system: units.UnitSystem,
+    atm: float,
+    record: Record | None,
+) -> None:
     p = lambda x: units.format_pressure(x, system, atmospheric_pressure_Pa=atm)  # noqa: E731
     t = lambda x: units.format_temperature(x, system)  # noqa: E731
     _head(console, "gauge reading", record)
