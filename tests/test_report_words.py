@@ -420,3 +420,27 @@ def test_demo_reports_print_no_software_or_recall_as_a_source(demo_reports) -> N
         for word in BANNED:
             assert word not in text, (name, word)
         assert not np.any([b in render_html(a) for b in BANNED]), name
+
+
+def test_the_scale_reading_of_the_largest_charge_is_rounded_down_in_us_units() -> None:
+    # FLT-18KG: marked tare 15.4 kg (demo file) + the printed plan 18.06 kg = 33.46 kg
+    # = 73.7666 lb (1 lb = 0.45359237 kg, exact by definition): printed 73.76 lb, never 73.77.
+    demo = str(REPO / "scenarios" / "propane_forklift_store.toml")
+    res = CliRunner().invoke(app, ["check", demo, "--units", "us", "--width", "250"])
+    assert "up to 39.81 lb per vessel" in res.stdout
+    assert 33.46 / 0.45359237 == pytest.approx(73.7666, abs=1e-4)
+    assert "scale reading of 73.76 lb" in res.stdout
+    assert "73.77 lb" not in res.stdout
+
+
+def test_margin_below_model_error_is_said_in_pressure_not_a_third_share() -> None:
+    # Hydrogen at 700 barg settled, stored up to 85 °C against 875 barg: the demo's roof bank,
+    # whose margin is smaller than the model's uncertainty (README, hydrogen_bank.toml).
+    a = assess_scenario(load_scenario(REPO / "scenarios" / "hydrogen_bank.toml"))
+    said = [
+        f.message for v in a.vessels for f in v.findings if f.code == "margin-below-model-error"
+    ]
+    assert said, "the demo's review case"
+    for m in said:
+        assert re.search(r"lies \d+\.\d bar below the ", m), m
+        assert re.search(r"\d+\.\d bar at the limit", m), m

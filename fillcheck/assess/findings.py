@@ -165,6 +165,8 @@ def vessel_findings(
             limits.append(("relief set pressure", lim.relief_set_pressure_Pa))
         limits += _rule_pressure_limits(v)
         for name, L in limits:
+            # the margin against the relative uncertainty: (L − P)/L < u, i.e. L − P < u·L, as
+            # the sentence prints it (both in bar or psi)
             margin = (L - P_top) / L
             if 0.0 <= margin < u_top:
                 out.append(
@@ -172,8 +174,10 @@ def vessel_findings(
                         "margin-below-model-error",
                         "review",
                         f"the highest pressure, {p(P_top)} at {t(path.T[i_top])}, lies "
-                        f"{margin:.1%} below the {name} {p(L)}: less than {source} there "
-                        f"({u_top:.1%}, {path.phase[i_top]}), so the margin cannot be vouched for",
+                        f"{_span(L - P_top, system)} below the {name} {p(L)}: less than "
+                        f"{source} there ({u_top:.1%} of the pressure, "
+                        f"{_span(u_top * L, system)} at the limit; {path.phase[i_top]}), so the "
+                        "margin cannot be vouched for",
                     )
                 )
 

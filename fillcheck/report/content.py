@@ -234,7 +234,7 @@ def fill_plan(v: VesselAssessment, fmt: Formatter) -> str:
         r = v.marking
         if r is not None and r.max_safe_gross_mass_kg is not None:
             out.append(
-                f"By weight: stop at a scale reading of {fmt.m(r.max_safe_gross_mass_kg)} "
+                f"By weight: stop at a scale reading of {fmt.m_down(r.max_safe_gross_mass_kg)} "
                 f"(marked tare {fmt.m(r.tare_mass_kg)} + {fmt.m_down(v.max_safe_charge_kg)})."
             )
     return " ".join(out)

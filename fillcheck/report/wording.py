@@ -71,7 +71,8 @@ def finding_message(f: Finding, system: units.UnitSystem = "metric", atm: float 
         )
         if d.get("max_safe_gross_mass_kg") is not None:
             said += (
-                f"; stop a fill by weight at a scale reading of {m(d['max_safe_gross_mass_kg'])}"
+                "; stop a fill by weight at a scale reading of "
+                f"{units.format_mass(d['max_safe_gross_mass_kg'], system, down=True)}"
             )
         return said
     return f.code
