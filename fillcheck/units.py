@@ -545,6 +545,12 @@ def format_charge_density(kg_m3: float, system: UnitSystem = "metric") -> str:
     return format_filling_ratio(kg_m3, system) if _us(system) else format_density(kg_m3, system)
 
 
+def format_share(x: float, digits: int = 1, signed: bool = False) -> str:
+    """Show a fraction [-] as a percentage with a space before the sign, as the reports write
+    every percentage: ``"46.3 %"``, signed ``"+46.3 %"``."""
+    return f"{_num(100.0 * x, digits) if not signed else f'{100.0 * x:+.{digits}f}'} %"
+
+
 def format_filling_density(kg_m3: float, digits: int = 1) -> str:
     """Show a filling ratio [kg/m³] as a US filling density [%], e.g. ``"68.0 %"``."""
     return f"{_num(100.0 * kg_m3 / WATER_DENSITY_60F_kg_m3, digits)} %"

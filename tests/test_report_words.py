@@ -204,7 +204,7 @@ def test_register_summary_margin_equals_the_vessel_detail_margin() -> None:
     summary = _summary_rows(text)
     detail = {
         v.id: re.search(
-            r"\(([+-]\d+\.\d)% of the gauge limit\)",
+            r"\(([+-]\d+\.\d) % of the gauge limit\)",
             next(f.message for f in v.findings if f.code == "margin-allowable"),
         ).group(1)
         for v in a.vessels
@@ -212,11 +212,11 @@ def test_register_summary_margin_equals_the_vessel_detail_margin() -> None:
     assert set(summary) == {v.id for v in a.vessels}
     for i, b in enumerate(fills):
         vid = f"N2-{i:02d}"
-        assert summary[vid] == detail[vid] + "%", vid
+        assert summary[vid] == detail[vid] + " %", vid
         rho = CP.PropsSI("D", "T", 288.15, "P", b * BAR + ATM, "nitrogen")
         P_top = CP.PropsSI("P", "T", 338.15, "D", rho, "nitrogen")
         L = 300 * BAR + ATM
-        assert float(summary[vid].rstrip("%")) == pytest.approx(
+        assert float(summary[vid].rstrip(" %")) == pytest.approx(
             100.0 * (L - P_top) / (L - ATM), abs=0.06
         ), vid
     html = render_html(a)
@@ -297,6 +297,8 @@ def test_demo_reports_spell_each_unit_one_way_per_block_and_end_no_line_in_a_spa
             for one, other in SPELLINGS:
                 pattern = rf"(?<![\w/]){re.escape(other)}(?!\w)"
                 assert not (one in block and re.search(pattern, block)), (name, one, other)
+            # percentages: "46.3 %" throughout, as the entered limits are written ("5 %")
+            assert not (re.search(r"\d %", block) and re.search(r"\d%", block)), name
 
 
 def test_stop_table_and_reading_end_no_line_in_a_space() -> None:

@@ -106,7 +106,8 @@ def vessel_findings(
                     "vapour-space-uncertain",
                     "review",
                     f"{said}. The difference is within the {f.model} model's measured "
-                    f"saturated-liquid density error for {f.name} ({err:.1%}): weigh the charge "
+                    f"saturated-liquid density error for {f.name} ({units.format_share(err)}): "
+                    "weigh the charge "
                     "against the code's filling ratio or use a reference equation of state",
                 )
             )
@@ -175,7 +176,7 @@ def vessel_findings(
                         "review",
                         f"the highest pressure, {p(P_top)} at {t(path.T[i_top])}, lies "
                         f"{_span(L - P_top, system)} below the {name} {p(L)}: less than "
-                        f"{source} there ({u_top:.1%} of the pressure, "
+                        f"{source} there ({units.format_share(u_top)} of the pressure, "
                         f"{_span(u_top * L, system)} at the limit; {path.phase[i_top]}), so the "
                         "margin cannot be vouched for",
                     )
@@ -230,7 +231,7 @@ def vessel_findings(
                 "info",
                 f"filling ratio {fr(a.density_kg_m3)} against the limit "
                 f"{fr(lim.max_filling_ratio_kg_m3)} "
-                f"(margin {m / lim.max_filling_ratio_kg_m3:+.1%})",
+                f"(margin {units.format_share(m / lim.max_filling_ratio_kg_m3, signed=True)})",
             )
         )
     return out, checked
@@ -265,7 +266,11 @@ def _margin(
     code = "margin-" + name.split()[0]
     sign = "+" if margin >= 0 else "-"
     share_of_gauge = pressure_margin(limit, P_top, v.atmospheric_pressure_Pa)
-    share = "" if np.isnan(share_of_gauge) else f"{share_of_gauge:+.1%} of the gauge limit"
+    share = (
+        ""
+        if np.isnan(share_of_gauge)
+        else f"{units.format_share(share_of_gauge, signed=True)} of the gauge limit"
+    )
     return Finding(
         code,
         "info",
@@ -386,8 +391,9 @@ def _top_liquid_findings(
                 Finding(
                     "vapour-space-low",
                     "warning",
-                    f"at {t(T_top)} liquid fills {liquid:.1%} of the vessel, leaving {left:.1%} "
-                    f"vapour space, less than the {VAPOUR_SPACE_WARNING:.0%} fillcheck keeps in "
+                    f"at {t(T_top)} liquid fills {units.format_share(liquid)} of the vessel, "
+                    f"leaving {units.format_share(left)} vapour space, less than the "
+                    f"{units.format_share(VAPOUR_SPACE_WARNING, 0)} fillcheck keeps in "
                     "its plans; a few kelvin more and the vessel is liquid-full",
                 )
             )

@@ -269,7 +269,7 @@ margins to the allowable pressure."""
 
 def margin_text(x: float) -> str:
     """A pressure margin (assess.result.pressure_margin) as every report prints it."""
-    return "—" if math.isnan(x) else f"{x:+.1%}"
+    return "—" if math.isnan(x) else f"{units.format_share(x, signed=True)}"
 
 
 SUMMARY_TITLE = "Every failing vessel, then the smallest margins to the allowable pressure"

@@ -203,14 +203,18 @@ def _reading(
         f"{t(r.reference_temperature_K)}."
     )
     console.print(
-        f"With the gauge within ±{r.gauge_uncertainty:.0%} of its reading and the gas "
+        f"With the gauge within ±{units.format_share(r.gauge_uncertainty, 0)} of its reading "
+        "and the gas "
         f"temperature within ±{r.thermometer_uncertainty_K:g} K, the charge lies between "
         f"{units.format_mass(r.charge_low_kg, system)} and "
         f"{units.format_mass(r.charge_high_kg, system)}."
     )
-    line = f"That is {r.fraction_of_target:.1%} of the planned charge"
+    line = f"That is {units.format_share(r.fraction_of_target)} of the planned charge"
     if r.fraction_of_max_safe is not None:
-        line += f" and {r.fraction_of_max_safe:.1%} of the largest charge within the limits"
+        line += (
+            f" and {units.format_share(r.fraction_of_max_safe)} of the largest charge within "
+            "the limits"
+        )
     console.print(line + ".")
     if r.fraction_of_max_safe is not None and r.fraction_of_max_safe > 1.0:
         console.print(
