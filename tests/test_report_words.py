@@ -219,6 +219,15 @@ def test_register_summary_margin_equals_the_vessel_detail_margin() -> None:
         assert float(summary[vid].rstrip(" %")) == pytest.approx(
             100.0 * (L - P_top) / (L - ATM), abs=0.06
         ), vid
+    # JSON: the printed margin as limits.margin_to_allowable_gauge; the older key keeps its
+    # absolute basis (allowable − highest)/allowable
+    from fillcheck.report.json_report import vessel_dict
+
+    for v in a.vessels:
+        lim = vessel_dict(v, ATM)["limits"]
+        assert f"{100.0 * lim['margin_to_allowable_gauge']:+.1f} %" == summary[v.id], v.id
+        L, P_top = v.allowable_pressure_Pa, float(max(v.path_P_Pa))
+        assert lim["margin_to_allowable"] == pytest.approx((L - P_top) / L, rel=1e-12)
     html = render_html(a)
     for vid, m in summary.items():
         row = re.search(rf"<tr><td>{vid}</td>(.*?)</tr>", html)
