@@ -414,6 +414,49 @@ def parse_fraction(text: str | float | int) -> float:
     return value
 
 
+_SPELLING = {
+    **dict.fromkeys(("degc", "°c", "deg c", "celsius"), "°C"),
+    **dict.fromkeys(("degf", "°f", "deg f", "fahrenheit"), "°F"),
+    "kelvin": "K",
+    **dict.fromkeys(("m3", "m^3"), "m³"),
+    **dict.fromkeys(("ft3", "ft^3", "cu ft"), "ft³"),
+    **dict.fromkeys(("kg/m3", "kg/m^3"), "kg/m³"),
+    **dict.fromkeys(("lb/ft3", "lb/ft^3"), "lb/ft³"),
+    **dict.fromkeys(("litre", "liter"), "L"),
+    **dict.fromkeys(("percent",), "%"),
+    **dict.fromkeys(("m2", "m^2"), "m²"),
+    **dict.fromkeys(("cm2", "cm^2"), "cm²"),
+}
+"""Other spellings of a unit and the one the reports print."""
+
+
+def respell(text: str) -> str:
+    """A quantity string with its unit spelled as the reports spell it, its number untouched.
+
+    ``"15 degC"`` gives ``"15 °C"``, ``"200 bar(g)"`` and ``"200 bar gauge"`` give
+    ``"200 barg"``, ``"50 m3"`` gives ``"50 m³"``. Text that is not one number and a known unit
+    is returned as it is (the input has been read already; this only changes how it is shown).
+    """
+    s = " ".join(str(text).split())
+    m = _NUMBER_RE.match(s)
+    if m is None:
+        return s
+    num, unit = m.group(), s[m.end() :].strip()
+    for glyph, plain in _GLYPHS:
+        unit = unit.replace(glyph, plain)
+    pressure = _PRESSURE_RE.fullmatch(unit)
+    if pressure is not None:
+        base = _CANONICAL_PRESSURE[pressure.group(1).casefold()]
+        said = (pressure.group(2) or "").casefold().replace(" ", "").strip("()")
+        if base in ("bar", "psi") and said in ("g", "gauge", "gage"):
+            return f"{num} {base}g"
+        if base in ("bar", "psi") and said in ("a", "absolute", "abs"):
+            return f"{num} {base}a"
+        mark = {"g": "(g)", "gauge": "(g)", "gage": "(g)", "a": "(a)", "absolute": "(a)"}
+        return f"{num} {base}{mark.get(said, ' ' + said if said else '')}".rstrip()
+    return f"{num} {_SPELLING.get(unit.casefold(), unit)}".rstrip()
+
+
 def _num(value: float, digits: int) -> str:
     """Fixed-point text of ``value`` without a minus sign on a rounded zero."""
     if not math.isfinite(value):
@@ -500,6 +543,12 @@ def format_charge_density(kg_m3: float, system: UnitSystem = "metric") -> str:
     """Show a vessel's charge per water capacity [kg/m³] as a density in ``kg/m³`` (metric) or,
     as the US trade states it, a filling density (``"66.7 % filling density"``)."""
     return format_filling_ratio(kg_m3, system) if _us(system) else format_density(kg_m3, system)
+
+
+def format_share(x: float, digits: int = 1, signed: bool = False) -> str:
+    """Show a fraction [-] as a percentage with a space before the sign, as the reports write
+    every percentage: ``"46.3 %"``, signed ``"+46.3 %"``."""
+    return f"{_num(100.0 * x, digits) if not signed else f'{100.0 * x:+.{digits}f}'} %"
 
 
 def format_filling_density(kg_m3: float, digits: int = 1) -> str:

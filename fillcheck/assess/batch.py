@@ -193,7 +193,8 @@ def _assess_group(
     liquefied_at_ref = np.isin(at_ref.phase, ("two-phase", "liquid"))
     T_fill = np.array([v.fill_temperature_K or T_ref for v in vs])
     has_fill_T = np.array([v.fill_temperature_K is not None for v in vs])
-    fill_P = vessel_path(f, T_fill, rho).P
+    at_fill = vessel_path(f, T_fill, rho)
+    fill_P = at_fill.P
     is_p = np.array([v.fill_kind == "pressure" for v in vs])
     fill_P = np.where(is_p, [v.fill_value for v in vs], fill_P)
     allow = np.array([v.limits.allowable_pressure_Pa for v in vs])
@@ -297,6 +298,10 @@ def _assess_group(
                 name: _num(reach[name][j]) for name in ("allowable", "relief", "validity")
             },
             highest_computed_K=T_upper,
+            atmospheric_pressure_Pa=v.atmospheric_pressure_Pa,
+            fill_phase=str(at_fill.phase[j]) if has_fill_T[j] else None,
+            min_vapour_space=v.limits.min_vapour_space,
+            vapour_space_temperature_K=v.limits.vapour_space_temperature_K,
         )
         a.saturation_T_K, a.saturation_P_Pa = sat_curve[j]
         # a mixture filled as a gas that only condenses in the cold is not a liquefied gas

@@ -17,8 +17,8 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from fillcheck import units
-from fillcheck.assess.result import Finding, VesselAssessment
-from fillcheck.assess.rules import RULES_SOURCE, rule_limits
+from fillcheck.assess.result import Finding, RuleCheck, VesselAssessment, pressure_margin
+from fillcheck.assess.rules import RULES_PUBLICATION, VERIFY_EDITION, rule_limits
 from fillcheck.assess.uncertainty import pressure_uncertainty
 from fillcheck.thermo.vessel import VesselPath
 
@@ -89,9 +89,9 @@ def vessel_findings(
         err = me.saturated_liquid_density if me is not None else None
         within = err is not None and 0.0 < liquid < 1.0 and abs(allowed / liquid - 1.0) < err
         said = (
-            f"at {t(Tv)} liquid fills {liquid:.1%} of the vessel, leaving "
-            f"{max(0.0, 1 - liquid):.1%} vapour space; at least {_pct(lim.min_vapour_space)} "
-            "is required"
+            f"at {t(Tv)} liquid fills {100.0 * liquid:.1f} % of the vessel, leaving "
+            f"{100.0 * max(0.0, 1 - liquid):.1f} % vapour space; at least "
+            f"{_pct(lim.min_vapour_space)} is required"
         )
         if within:
             out.append(
@@ -99,7 +99,8 @@ def vessel_findings(
                     "vapour-space-uncertain",
                     "review",
                     f"{said}. The difference is within the {f.model} model's measured "
-                    f"saturated-liquid density error for {f.name} ({err:.1%}): weigh the charge "
+                    f"saturated-liquid density error for {f.name} ({units.format_share(err)}): "
+                    "weigh the charge "
                     "against the code's filling ratio or use a reference equation of state",
                 )
             )
@@ -158,6 +159,8 @@ def vessel_findings(
             limits.append(("relief set pressure", lim.relief_set_pressure_Pa))
         limits += _rule_pressure_limits(v)
         for name, L in limits:
+            # the margin against the relative uncertainty: (L − P)/L < u, i.e. L − P < u·L, as
+            # the sentence prints it (both in bar or psi)
             margin = (L - P_top) / L
             if 0.0 <= margin < u_top:
                 out.append(
@@ -165,8 +168,10 @@ def vessel_findings(
                         "margin-below-model-error",
                         "review",
                         f"the highest pressure, {p(P_top)} at {t(path.T[i_top])}, lies "
-                        f"{margin:.1%} below the {name} {p(L)}: less than {source} there "
-                        f"({u_top:.1%}, {path.phase[i_top]}), so the margin cannot be vouched for",
+                        f"{_span(L - P_top, system)} below the {name} {p(L)}: less than "
+                        f"{source} there ({units.format_share(u_top)} of the pressure, "
+                        f"{_span(u_top * L, system)} at the limit; {path.phase[i_top]}), so the "
+                        "margin cannot be vouched for",
                     )
                 )
 
@@ -219,7 +224,7 @@ def vessel_findings(
                 "info",
                 f"filling ratio {fr(a.density_kg_m3)} against the limit "
                 f"{fr(lim.max_filling_ratio_kg_m3)} "
-                f"(margin {m / lim.max_filling_ratio_kg_m3:+.1%})",
+                f"(margin {units.format_share(m / lim.max_filling_ratio_kg_m3, signed=True)})",
             )
         )
     return out, checked
@@ -253,8 +258,12 @@ def _margin(
         )
     code = "margin-" + name.split()[0]
     sign = "+" if margin >= 0 else "-"
-    gauge_limit = limit - v.atmospheric_pressure_Pa
-    share = f"{margin / gauge_limit:+.1%} of the gauge limit" if gauge_limit > 0 else ""
+    share_of_gauge = pressure_margin(limit, P_top, v.atmospheric_pressure_Pa)
+    share = (
+        ""
+        if np.isnan(share_of_gauge)
+        else f"{units.format_share(share_of_gauge, signed=True)} of the gauge limit"
+    )
     return Finding(
         code,
         "info",
@@ -282,13 +291,16 @@ def _rule_findings(
             "rule-set",
             "info",
             f"rule set '{v.rules.set}' with test pressure {p(v.rules.test_pressure_Pa)}, "
-            f"an example after {RULES_SOURCE}",
+            f"an example after {RULES_PUBLICATION}: {VERIFY_EDITION}",
         )
     ]
     rho = a.density_kg_m3 / v.fluid.molar_mass
     M = v.fluid.molar_mass
     for r in rule_limits(v.fluid, v.rules.set, v.rules.test_pressure_Pa, v.atmospheric_pressure_Pa):
         checked.append(f"{v.rules.set}: {r.text}")
+        a.rule_checks.append(
+            RuleCheck(v.rules.set, r.text, None if r.density_mol is None else r.density_mol * M)
+        )
         if r.density_mol is None or rho > r.density_mol * (1 + 1e-12):
             out.append(
                 Finding(
@@ -420,8 +432,9 @@ def _top_liquid_findings(
                 Finding(
                     "vapour-space-low",
                     "warning",
-                    f"at {t(T_top)} liquid fills {liquid:.1%} of the vessel, leaving {left:.1%} "
-                    f"vapour space, less than the {VAPOUR_SPACE_WARNING:.0%} fillcheck keeps in "
+                    f"at {t(T_top)} liquid fills {units.format_share(liquid)} of the vessel, "
+                    f"leaving {units.format_share(left)} vapour space, less than the "
+                    f"{units.format_share(VAPOUR_SPACE_WARNING, 0)} fillcheck keeps in "
                     "its plans; a few kelvin more and the vessel is liquid-full",
                 )
             )

@@ -98,7 +98,7 @@ def mixture_findings(
         else:
             said = (
                 f"at {t} the mixture splits: a liquid rich in {dropout.condensing} takes "
-                f"{dropout.liquid_volume_fraction:.1%} of the vessel (liquid "
+                f"{units.format_share(dropout.liquid_volume_fraction)} of the vessel (liquid "
                 f"{_composition(dropout.liquid_x)}), and the gas drawn off is "
                 f"{_composition(dropout.vapour_y)}, not the composition on the label; warm "
                 "the vessel and roll or wait before use so the liquid re-mixes"

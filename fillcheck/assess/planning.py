@@ -62,6 +62,11 @@ class StopTable:
     """Whether the planned charge is above the largest charge keeping every limit before that
     is rounded down to the printed figure (a fill entered exactly at a marked working pressure
     is not over, though the printed figure lies up to 10 g below it)."""
+    by_weight: bool = False
+    """The vessel's fill is given by mass: it is stopped by the scale reading, and the printout
+    gives that reading instead of a table of pressures per gas temperature."""
+    tare_mass_kg: float | None = None
+    """The marked empty weight [kg] (the scale reading is tare + charge), or None."""
 
 
 def fill_temperatures(v: VesselInput, T_ref: float, step_K: float) -> tuple[np.ndarray, float]:
@@ -131,6 +136,8 @@ def stop_table(v: VesselInput, T_ref: float, temperatures_K: np.ndarray) -> Stop
         governing_limit=None if safe is None else safe.governing,
         rows=rows,
         over_plan=_over_plan(v, T_ref, rho),
+        by_weight=v.fill_kind == "mass",
+        tare_mass_kg=None if v.marking is None else v.marking.tare_mass_kg,
     )
 
 

@@ -36,6 +36,29 @@ class Finding:
     data: dict[str, float | str | None] | None = field(default=None, compare=False, hash=False)
 
 
+def pressure_margin(limit_Pa: float, highest_Pa: float, atmospheric_pressure_Pa: float) -> float:
+    """The margin of a pressure limit, the one basis every report prints [-].
+
+    (limit − highest pressure) / (limit − atmosphere): a share of the gauge limit, as limits
+    are marked and stated; negative when the limit is exceeded. Pressures [Pa abs]. NaN where
+    the limit is not above the atmosphere (no gauge limit to take a share of).
+    """
+    gauge_limit = limit_Pa - atmospheric_pressure_Pa
+    if not gauge_limit > 0.0:
+        return float("nan")
+    return (limit_Pa - highest_Pa) / gauge_limit
+
+
+@dataclass(frozen=True)
+class RuleCheck:
+    """One rule of a named rule set against the charge: its words and the largest charge per
+    water capacity it allows [kg/m³] (inf: it limits no charge; None: no charge meets it)."""
+
+    rule_set: str
+    text: str
+    max_density_kg_m3: float | None
+
+
 @dataclass(frozen=True)
 class EndState:
     """The vessel at one temperature: T [K], P [Pa abs], phase, Z [-]."""
@@ -118,9 +141,28 @@ class VesselAssessment:
     filling: Any = None
     """The fill process (assess.fill_process.FillResult) where ``[vessel.filling]`` is given."""
 
+    atmospheric_pressure_Pa: float = 101325.0
+    """The scenario's atmospheric pressure [Pa], the zero of its gauge pressures."""
+    fill_phase: str | None = None
+    """The phase at the fill state (None without a fill temperature)."""
+    min_vapour_space: float | None = None
+    """The entered vapour-space limit [-] (the vapour share of the vessel), or None."""
+    vapour_space_temperature_K: float | None = None
+    """The temperature at which the vapour-space limit applies [K], or None."""
+    rule_checks: list[RuleCheck] = field(default_factory=list)
+    """The rules of the vessel's named rule set, each with the charge it allows."""
+
     @property
     def margin_to_allowable(self) -> float:
-        """(allowable − highest pressure in the range)/allowable [-]; negative when exceeded."""
+        """The margin of the allowable pressure over the highest pressure in the range, as a
+        share of the gauge allowable pressure (pressure_margin) [-]; negative when exceeded."""
+        allow = self.allowable_pressure_Pa or float("nan")
+        return pressure_margin(allow, float(np.max(self.path_P_Pa)), self.atmospheric_pressure_Pa)
+
+    @property
+    def margin_to_allowable_absolute(self) -> float:
+        """(allowable − highest pressure)/allowable, both absolute [-]: the JSON key
+        ``limits.margin_to_allowable`` keeps this basis for the scripts that read it."""
         allow = self.allowable_pressure_Pa or float("nan")
         return (allow - float(np.max(self.path_P_Pa))) / allow
 

@@ -28,10 +28,15 @@ if TYPE_CHECKING:
     from fillcheck.thermo.fluid import Fluid
 
 RULE_SETS = ("p200-compressed", "p200-high-pressure-liquefied", "p200-low-pressure-liquefied")
-RULES_SOURCE = (
+RULES_PUBLICATION = (
     "UN Recommendations on the Transport of Dangerous Goods, Model Regulations, 22nd revised "
-    "edition (2021), 4.1.4.1 P200 (3) (rule wording from memory: verify against your code)"
+    "edition (2021), 4.1.4.1 P200 (3)"
 )
+"""The code the rule sets follow, as a printed report cites it."""
+VERIFY_EDITION = "verify against the edition that applies to you"
+"""What a printed report says beside every value taken from a code."""
+RULES_SOURCE = RULES_PUBLICATION + " (rule wording from memory: verify against your code)"
+"""The full record of the rules' source (documentation and tests; never printed)."""
 T_65C, T_60C, T_50C, T_15C = 338.15, 333.15, 323.15, 288.15
 
 

@@ -67,8 +67,8 @@ TEXT = {
     "fire": (
         "Fire temperatures: fillcheck computes the pressure of the gas this hot, not the "
         "strength of the vessel, which steels and composites lose long before such "
-        "temperatures; a cylinder exposed to fire is cooled from a safe distance and taken out "
-        "of service until inspected."
+        "temperatures; a cylinder exposed to fire is cooled from behind cover, at a distance, "
+        "and taken out of service until inspected."
     ),
 }
 """What each caution says, by code."""

@@ -46,10 +46,21 @@ def vessel_chart_svg(
 ) -> str:
     """The chart as an SVG string (no XML declaration), sized for a printed page."""
     with _quiet():
-        return _vessel_chart(v, system, atm, allowable_Pa, relief_Pa)
+        return _svg(vessel_figure(v, system, atm, allowable_Pa, relief_Pa))
 
 
-def _vessel_chart(
+def _legend_outside(ax, fontsize: float) -> None:
+    """The legend to the right of the axes, never over a limit line or the vessel's path."""
+    ax.legend(
+        fontsize=fontsize,
+        loc="upper left",
+        bbox_to_anchor=(1.02, 1.0),
+        borderaxespad=0.0,
+        framealpha=0.9,
+    )
+
+
+def vessel_figure(
     v: VesselAssessment,
     system: units.UnitSystem,
     atm: float,
@@ -64,7 +75,7 @@ def _vessel_chart(
 
     plt.rcParams["svg.fonttype"] = "none"
     tx, tlabel, px, plabel = _axes_units(system)
-    fig = Figure(figsize=(6.3, 3.6), dpi=100)
+    fig = Figure(figsize=(7.4, 3.6), dpi=100)
     ax = fig.add_subplot()
     T, P = v.path_T_K, v.path_P_Pa
     ax.axvspan(tx(T[0]), tx(T[-1]), color="#e8eef6", label="storage range", zorder=0)
@@ -108,14 +119,15 @@ def _vessel_chart(
     # user text is shown as written: never read as mathtext ("$...$")
     ax.set_title(f"{v.id}: {v.gas} ({v.model})", fontsize=10, parse_math=False)
     ax.grid(True, lw=0.4, alpha=0.6)
-    ax.legend(fontsize=7, loc="upper left", framealpha=0.9)
-    return _svg(fig)
+    _legend_outside(ax, 7)
+    fig.tight_layout()
+    return fig
 
 
 def margin_chart_svg(vessels: list[VesselAssessment]) -> str:
     """A register's margins to the allowable pressure as a histogram, coloured by verdict."""
     with _quiet():
-        return _margin_chart(vessels)
+        return _svg(margin_figure(vessels))
 
 
 @contextmanager
@@ -135,20 +147,25 @@ def _quiet() -> Iterator[None]:
                 lg.setLevel(level)
 
 
-def _margin_chart(vessels: list[VesselAssessment]) -> str:
+def margin_figure(vessels: list[VesselAssessment]):
+    """The histogram of a register's margins (assess.result.pressure_margin) as a figure."""
     import matplotlib
 
     matplotlib.use("Agg")
     from matplotlib.figure import Figure
 
     margins = {
-        k: [100.0 * v.margin_to_allowable for v in vessels if v.verdict == k]
+        k: [
+            100.0 * v.margin_to_allowable
+            for v in vessels
+            if v.verdict == k and np.isfinite(v.margin_to_allowable)
+        ]
         for k in ("pass", "review", "fail")
     }
     every = [m for ms in margins.values() for m in ms]
     lo, hi = min([*every, -5.0]), max([*every, 5.0])
     bins = np.linspace(lo, hi, 41)
-    fig = Figure(figsize=(6.3, 2.8), dpi=100)
+    fig = Figure(figsize=(7.4, 2.8), dpi=100)
     ax = fig.add_subplot()
     colours = {"pass": "#2e7d4f", "review": "#c98a00", "fail": "#b3261e"}
     ax.hist(
@@ -159,11 +176,12 @@ def _margin_chart(vessels: list[VesselAssessment]) -> str:
         label=list(colours),
     )
     ax.axvline(0.0, color="#333", lw=1.0)
-    ax.set_xlabel("margin to the allowable pressure at the highest storage temperature [%]")
+    ax.set_xlabel("margin to the allowable pressure, share of its gauge value [%]")
     ax.set_ylabel("vessels")
-    ax.legend(fontsize=8)
+    _legend_outside(ax, 8)
     ax.grid(True, lw=0.4, alpha=0.6)
-    return _svg(fig)
+    fig.tight_layout()
+    return fig
 
 
 def _svg(fig) -> str:

@@ -5,10 +5,13 @@ The renderers only lay these rows out; the words and the unit formatting live he
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 from fillcheck import units
 from fillcheck.assess.result import Finding, VesselAssessment
+from fillcheck.assess.rules import RULES_PUBLICATION, VERIFY_EDITION
+from fillcheck.fluids.citation import citation
 from fillcheck.report.wording import limits_checked
 
 ENTERED_LABELS = {
@@ -67,13 +70,17 @@ class Formatter:
 
 
 def publication(source: str) -> str:
-    """The publication part of a catalog source note (the rest stays in the catalog)."""
-    return source.split(" [CoolProp key")[0].split(" (figures")[0]
+    """The publication a catalog source note names (the rest stays in the catalog)."""
+    return citation(source)
 
 
 def entered_rows(v: VesselAssessment) -> list[tuple[str, str]]:
     """The user's inputs in their own units, then the model and its sources."""
-    rows = [(label, v.entered[key]) for key, label in ENTERED_LABELS.items() if key in v.entered]
+    rows = [
+        (label, units.respell(v.entered[key]))
+        for key, label in ENTERED_LABELS.items()
+        if key in v.entered
+    ]
     if v.composition is not None:
         rows.insert(0, ("composition (mole)", v.gas.removesuffix(" (mol)")))
     rows.append(("model", f"{v.model_name} ({v.model}); {'; '.join(v.model_references)}"))
@@ -98,14 +105,13 @@ def result_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
         rows.append(("density (filling ratio)", f"{density} ({ratio})"))
     if v.fill_pressure_Pa is not None:
         rows.append((f"pressure at fill, {t(v.fill_temperature_K)}", p(v.fill_pressure_Pa)))
-        rows.append(("Z at fill", f"{v.fill_Z:.4f}"))
+        rows.append(("Z at fill", _z(v.fill_Z, v.fill_phase)))
     rows.append((f"settled pressure at {t(v.reference_temperature_K)}", p(v.settled_pressure_Pa)))
     for label, e in (("lowest", v.min_state), ("highest", v.max_state)):
         rows.append(
             (f"at {label} temperature {t(e.temperature_K)}", f"{p(e.pressure_Pa)}  {e.phase}")
         )
-    z_top = "— (two-phase)" if v.max_state.phase == "two-phase" else f"{v.max_state.Z:.4f}"
-    rows.append((f"Z at {t(v.max_state.temperature_K)}", z_top))
+    rows.append((f"Z at {t(v.max_state.temperature_K)}", _z(v.max_state.Z, v.max_state.phase)))
     rows.append(
         ("pressure rise at highest temperature", units.pressure_rate_per_K(v.dP_dT_at_max_Pa_K, s))
     )
@@ -138,6 +144,7 @@ def result_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
         )
     if r is not None and r.gross_mass_kg is not None:
         rows.append(("gross mass (marked tare + charge)", fmt.m(r.gross_mass_kg)))
+    rows += limit_value_rows(v, fmt)
     if v.max_safe_charge_kg is not None:
         rows.append(
             (
@@ -145,6 +152,51 @@ def result_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
                 f"{fmt.m_down(v.max_safe_charge_kg)} ({v.governing_limit} governs)",
             )
         )
+    return rows
+
+
+def _z(Z: float | None, phase: str | None) -> str:
+    """The compressibility factor [-], or a dash where the state is two-phase (an overall
+    density of liquid and vapour together has no compressibility factor worth printing)."""
+    if Z is None:
+        return "—"
+    return "— (two-phase)" if phase == "two-phase" else f"{Z:.4f}"
+
+
+def _share(x: float, digits: str = ".1f") -> str:
+    """A fraction [-] as the Results rows print it: '4.7 %' (a space before the sign, as the
+    entered limits are written)."""
+    return f"{100.0 * x:{digits}} %"
+
+
+def limit_value_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
+    """What the checks found against the vapour-space limit and each rule of a named rule set:
+    the value found, the limit and the margin (the rule values beside the code they come from)."""
+    rows: list[tuple[str, str]] = []
+    if v.min_vapour_space is not None and v.vapour_space_temperature_K is not None:
+        liquid = v.liquid_fraction_at_vapour_space_T or 0.0
+        left = max(0.0, 1.0 - liquid)
+        need = v.min_vapour_space
+        rows.append(
+            (
+                f"vapour space at {fmt.t(v.vapour_space_temperature_K)}",
+                f"{_share(left)} of the vessel (at least {_share(need, '.4g')}; margin "
+                f"{100.0 * (left - need):+.1f} points)",
+            )
+        )
+    if v.rule_checks:
+        ratio = units.format_filling_ratio(v.density_kg_m3, fmt.system)
+        for r in v.rule_checks:
+            if r.max_density_kg_m3 is None:
+                said = f"no charge meets it (this charge {ratio})"
+            elif math.isinf(r.max_density_kg_m3):
+                said = "met by any charge"
+            else:
+                limit = units.format_filling_ratio(r.max_density_kg_m3, fmt.system)
+                margin = (r.max_density_kg_m3 - v.density_kg_m3) / r.max_density_kg_m3
+                said = f"{ratio} against at most {limit} (margin {_share(margin, '+.1f')})"
+            rows.append((f"{r.rule_set}: {r.text}", said))
+        rows.append(("rule set taken from", f"{RULES_PUBLICATION}: {VERIFY_EDITION}"))
     return rows
 
 
@@ -182,7 +234,7 @@ def fill_plan(v: VesselAssessment, fmt: Formatter) -> str:
         r = v.marking
         if r is not None and r.max_safe_gross_mass_kg is not None:
             out.append(
-                f"By weight: stop at a scale reading of {fmt.m(r.max_safe_gross_mass_kg)} "
+                f"By weight: stop at a scale reading of {fmt.m_down(r.max_safe_gross_mass_kg)} "
                 f"(marked tare {fmt.m(r.tare_mass_kg)} + {fmt.m_down(v.max_safe_charge_kg)})."
             )
     return " ".join(out)
@@ -210,12 +262,42 @@ DETAIL_LIMIT = 25
 """A register report shows this many failing and review vessels in detail, worst first."""
 
 
+SUMMARY_SMALLEST = 10
+"""A register summary lists every failing vessel and, beside them, this many of the smallest
+margins to the allowable pressure."""
+
+
+def margin_text(x: float) -> str:
+    """A pressure margin (assess.result.pressure_margin) as every report prints it."""
+    return "—" if math.isnan(x) else f"{units.format_share(x, signed=True)}"
+
+
+SUMMARY_TITLE = "Every failing vessel, then the smallest margins to the allowable pressure"
+SUMMARY_COLUMNS = ("vessel", "gas", "highest pressure", "allowable", "margin", "verdict", "fails")
+
+
+def failed_codes(v: VesselAssessment) -> str:
+    """The codes of a vessel's failing findings ('—' for none)."""
+    return ", ".join(f.code for f in v.findings if f.severity == "fail") or "—"
+
+
 def register_summary(vessels: list[VesselAssessment]) -> dict[str, object]:
-    """Counts and the worst margins of a register (for both renderers)."""
+    """Counts, every failing vessel, and the smallest margins of a register (both renderers).
+
+    ``worst`` lists every failing vessel, whatever limit it fails, then the vessels with the
+    smallest margins to the allowable pressure up to SUMMARY_SMALLEST more: failing first,
+    each group by its margin."""
     counts = {k: sum(1 for v in vessels if v.verdict == k) for k in ("pass", "fail", "review")}
-    worst = sorted(vessels, key=lambda v: v.margin_to_allowable)[:10]
+
+    def margin(v: VesselAssessment) -> float:
+        x = v.margin_to_allowable
+        return -math.inf if math.isnan(x) else x
+
+    failing = sorted((v for v in vessels if v.verdict == "fail"), key=margin)
+    others = sorted((v for v in vessels if v.verdict != "fail"), key=margin)
+    worst = failing + others[:SUMMARY_SMALLEST]
     flagged = sorted(
         (v for v in vessels if v.verdict != "pass"),
-        key=lambda v: (v.verdict != "fail", v.margin_to_allowable),
+        key=lambda v: (v.verdict != "fail", margin(v)),
     )
     return {"counts": counts, "worst": worst, "flagged": flagged, "total": len(vessels)}

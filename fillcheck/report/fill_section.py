@@ -9,6 +9,7 @@ from typing import Any
 
 import numpy as np
 
+from fillcheck import units
 from fillcheck.assess.fill_process import CASCADE_COUNT_MAX, CURVE_POINTS_SHOWN
 from fillcheck.assess.result import VesselAssessment
 from fillcheck.report.content import Formatter
@@ -42,7 +43,11 @@ def filling_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
     r = v.filling
     if r is None:
         return []
-    rows = [(label, v.entered[k]) for k, label in ENTERED_FILLING_LABELS.items() if k in v.entered]
+    rows = [
+        (label, units.respell(v.entered[k]))
+        for k, label in ENTERED_FILLING_LABELS.items()
+        if k in v.entered
+    ]
     if r.error is not None:
         return [*rows, ("result", "not computed (see the finding fill-not-computed)")]
     stop = (

@@ -21,10 +21,14 @@ from fillcheck.report.caution_text import caution_reason, caution_text
 from fillcheck.report.chart import margin_chart_svg, vessel_chart_svg
 from fillcheck.report.content import (
     CLOSING_CAUTION,
+    SUMMARY_COLUMNS,
+    SUMMARY_TITLE,
     VERDICT_WORD,
     Formatter,
     entered_rows,
+    failed_codes,
     fill_plan,
+    margin_text,
     register_summary,
     result_rows,
     sorted_findings,
@@ -115,8 +119,8 @@ def _body(a: ScenarioAssessment, fmt: Formatter) -> str:
         f'<tr><td>{_e(v.id)}</td><td>{_e(v.gas)}</td><td class="num">'
         f'{_e(fmt.p(float(max(v.path_P_Pa))))}</td><td class="num">'
         f'{_e(fmt.p(v.allowable_pressure_Pa))}</td><td class="num">'
-        f'{v.margin_to_allowable:+.1%}</td><td class="{v.verdict}">'
-        f"{VERDICT_WORD[v.verdict]}</td></tr>"
+        f'{_e(margin_text(v.margin_to_allowable))}</td><td class="{v.verdict}">'
+        f"{VERDICT_WORD[v.verdict]}</td><td>{_e(failed_codes(v))}</td></tr>"
         for v in summary["worst"]
     )
     flagged = summary["flagged"]
@@ -131,9 +135,9 @@ def _body(a: ScenarioAssessment, fmt: Formatter) -> str:
         f"<h2>Register summary</h2><p>{summary['total']} vessels: {c['pass']} pass, "
         f"{c['fail']} fail, {c['review']} need review.</p>"
         f'<div class="chart">{margin_chart_svg(a.vessels)}</div>'
-        "<h3>Smallest margins to the allowable pressure</h3><table><tr><th>vessel</th>"
-        "<th>gas</th><th>highest pressure</th><th>allowable</th><th>margin</th><th>verdict</th>"
-        f"</tr>{rows}</table><h2>Failing and review vessels, worst first</h2>{note}"
+        f"<h3>{_e(SUMMARY_TITLE)}</h3><table><tr>"
+        + "".join(f"<th>{_e(c)}</th>" for c in SUMMARY_COLUMNS)
+        + f"</tr>{rows}</table><h2>Failing and review vessels, worst first</h2>{note}"
         + "".join(_vessel(v, fmt) for v in shown)
     )
 

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+import math
 from typing import Any
 
 from fillcheck import __version__
@@ -20,6 +21,11 @@ def _end(e: EndState) -> dict[str, Any]:
         "phase": e.phase,
         "Z": e.Z,
     }
+
+
+def _finite(x: float) -> float | None:
+    """A number, or null where it is not finite (JSON has no NaN)."""
+    return x if math.isfinite(x) else None
 
 
 def _finding(f: Finding, atm: float) -> dict[str, Any]:
@@ -89,7 +95,8 @@ def vessel_dict(v: VesselAssessment, atm: float = 101325.0) -> dict[str, Any]:
         "limits": {
             "allowable_pressure_Pa": v.allowable_pressure_Pa,
             "relief_set_pressure_Pa": v.relief_set_pressure_Pa,
-            "margin_to_allowable": v.margin_to_allowable,
+            "margin_to_allowable": v.margin_to_allowable_absolute,
+            "margin_to_allowable_gauge": _finite(v.margin_to_allowable),
             "liquid_fraction_at_vapour_space_temperature": v.liquid_fraction_at_vapour_space_T,
         },
         "limits_checked": limits_checked(v, "metric", atm),

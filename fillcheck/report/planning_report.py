@@ -46,6 +46,19 @@ def render_stop_tables(
     record: Record | None = None,
 ) -> None:
     """Print one stop-fill table per vessel, made to hang at the filling station."""
+    from fillcheck.report.terminal import trimmed
+
+    with trimmed(console):
+        _stop_tables(tables, console, system, atm, record)
+
+
+def _stop_tables(
+    tables: list[StopTable],
+    console: Console,
+    system: units.UnitSystem,
+    atm: float,
+    record: Record | None,
+) -> None:
 
     def p(x: float | None) -> str:
         return "—" if x is None else units.format_pressure(x, system, atmospheric_pressure_Pa=atm)
@@ -75,7 +88,12 @@ def render_stop_tables(
                 console.print(
                     Text(
                         "The planned charge is ABOVE the largest charge within the limits: do "
-                        "not fill to this plan; use the right-hand column.",
+                        "not fill to this plan; "
+                        + (
+                            "fill at most the largest charge."
+                            if st.by_weight
+                            else "use the right-hand column."
+                        ),
                         style="bold red",
                     )
                 )
@@ -86,6 +104,10 @@ def render_stop_tables(
                     style="bold red",
                 )
             )
+        if st.by_weight:
+            console.print(Text(by_weight_line(st, system), style="bold"))
+            console.print(f"Model: {st.model_name} ({st.model}); {st.model_source}")
+            continue
         table = Table(show_edge=True)
         table.add_column("gas temperature", justify="right")
         table.add_column("stop the fill at", justify="right")
@@ -118,7 +140,8 @@ def render_stop_tables(
             console.print(
                 Text(
                     "REVIEW: some stop pressures lie outside the range where the model's "
-                    "numbers are vouched for; no safe stop pressure is printed there.",
+                    "numbers are vouched for; no stop pressure for the largest charge is "
+                    "printed there.",
                     style="bold",
                 )
             )
@@ -133,6 +156,32 @@ def render_stop_tables(
     _foot(console, record)
 
 
+def by_weight_line(st: StopTable, system: units.UnitSystem) -> str:
+    """The one line of a vessel filled by weight: stop by the scale, at tare + charge where the
+    tare is marked (the largest charge's reading rounded down, like the charge itself)."""
+    target = units.format_mass(st.target_charge_kg, system)
+    if st.tare_mass_kg is None:
+        said = (
+            f"Filled by weight: stop the fill when the scale shows {target} of gas added "
+            "(no tare is marked: weigh the empty vessel first and add it)"
+        )
+        if st.max_safe_charge_kg is not None:
+            said += (
+                f"; never more than {units.format_mass(st.max_safe_charge_kg, system, down=True)}"
+            )
+        return said + "."
+    gross = units.format_mass(st.tare_mass_kg + st.target_charge_kg, system)
+    tare = units.format_mass(st.tare_mass_kg, system)
+    said = (
+        f"Filled by weight: stop the fill at a scale reading of {gross} "
+        f"(marked tare {tare} + {target})"
+    )
+    if st.max_safe_charge_kg is not None:
+        top = units.format_mass(st.tare_mass_kg + st.max_safe_charge_kg, system, down=True)
+        said += f"; never above {top} (tare + the largest charge within the limits)"
+    return said + ". No table of stop pressures: the scale, not the gauge, measures this charge."
+
+
 def render_reading(
     r: Reading,
     console: Console,
@@ -141,6 +190,19 @@ def render_reading(
     record: Record | None = None,
 ) -> None:
     """Print what a gauge reading means for the vessel."""
+    from fillcheck.report.terminal import trimmed
+
+    with trimmed(console):
+        _reading(r, console, system, atm, record)
+
+
+def _reading(
+    r: Reading,
+    console: Console,
+    system: units.UnitSystem,
+    atm: float,
+    record: Record | None,
+) -> None:
     p = lambda x: units.format_pressure(x, system, atmospheric_pressure_Pa=atm)  # noqa: E731
     t = lambda x: units.format_temperature(x, system)  # noqa: E731
     _head(console, "gauge reading", record)
@@ -151,14 +213,18 @@ def render_reading(
         f"{t(r.reference_temperature_K)}."
     )
     console.print(
-        f"With the gauge within ±{r.gauge_uncertainty:.0%} of its reading and the gas "
+        f"With the gauge within ±{units.format_share(r.gauge_uncertainty, 0)} of its reading "
+        "and the gas "
         f"temperature within ±{r.thermometer_uncertainty_K:g} K, the charge lies between "
         f"{units.format_mass(r.charge_low_kg, system)} and "
         f"{units.format_mass(r.charge_high_kg, system)}."
     )
-    line = f"That is {r.fraction_of_target:.1%} of the planned charge"
+    line = f"That is {units.format_share(r.fraction_of_target)} of the planned charge"
     if r.fraction_of_max_safe is not None:
-        line += f" and {r.fraction_of_max_safe:.1%} of the largest charge within the limits"
+        line += (
+            f" and {units.format_share(r.fraction_of_max_safe)} of the largest charge within "
+            "the limits"
+        )
     console.print(line + ".")
     if r.fraction_of_max_safe is not None and r.fraction_of_max_safe > 1.0:
         console.print(

@@ -3,6 +3,9 @@
 from __future__ import annotations
 
 import datetime as _dt
+import re
+from collections.abc import Iterator
+from contextlib import contextmanager
 
 from rich.console import Console, Group
 from rich.panel import Panel
@@ -16,10 +19,14 @@ from fillcheck.report.caution_text import caution_reason, caution_text
 from fillcheck.report.content import (
     CLOSING_CAUTION,
     DETAIL_LIMIT,
+    SUMMARY_COLUMNS,
+    SUMMARY_TITLE,
     VERDICT_WORD,
     Formatter,
     entered_rows,
+    failed_codes,
     fill_plan,
+    margin_text,
     register_summary,
     result_rows,
     sorted_findings,
@@ -33,6 +40,26 @@ _VERDICT_STYLE = {"pass": "bold green", "fail": "bold red", "review": "bold yell
 _SEVERITY_STYLE = {"fail": "red", "review": "yellow", "warning": "magenta", "info": "dim"}
 
 __all__ = ["CLOSING_CAUTION", "render_terminal"]
+
+
+_LINE_END = re.compile(r"(?:[ \t]|\x1b\[[0-9;]*m)+$", re.MULTILINE)
+_STYLE_CODE = re.compile(r"\x1b\[[0-9;]*m")
+
+
+def without_trailing_spaces(text: str) -> str:
+    """``text`` with the spaces at the end of each line removed (rich pads table cells and
+    wrapped lines to their width); the style codes there are kept."""
+    return _LINE_END.sub(lambda m: "".join(_STYLE_CODE.findall(m.group(0))), text)
+
+
+@contextmanager
+def trimmed(console: Console) -> Iterator[None]:
+    """Print through ``console`` with no line ending in a space: what is printed inside is
+    captured, trimmed line by line and written out at the end."""
+    with console.capture() as captured:
+        yield
+    console.file.write(without_trailing_spaces(captured.get()))
+    console.file.flush()
 
 
 def _verdict_text(verdict: str) -> Text:
@@ -99,8 +126,19 @@ def render_terminal(
     today: _dt.date | None = None,
     record: Record | None = None,
 ) -> None:
-    """Print the report of a whole scenario (with the permit-file record where given)."""
-    today = today or _dt.date.today()
+    """Print the report of a whole scenario (with the permit-file record where given); no
+    printed line ends in a space."""
+    with trimmed(console):
+        _render(a, console, system, today or _dt.date.today(), record)
+
+
+def _render(
+    a: ScenarioAssessment,
+    console: Console,
+    system: units.UnitSystem,
+    today: _dt.date,
+    record: Record | None,
+) -> None:
     fmt = Formatter(system, a.atmospheric_pressure_Pa)
     console.print(Rule(Text("fillcheck — cylinder fill and storage check", style="bold")))
     print_header(console, header_rows(a, system, today, record))
@@ -113,8 +151,8 @@ def render_terminal(
             f"{summary['total']} vessels: {c['pass']} pass, {c['fail']} fail, "
             f"{c['review']} need review."
         )
-        worst = Table(title="Smallest margins to the allowable pressure", title_justify="left")
-        for col in ("vessel", "gas", "highest pressure", "allowable", "margin", "verdict"):
+        worst = Table(title=SUMMARY_TITLE, title_justify="left")
+        for col in SUMMARY_COLUMNS:
             worst.add_column(col, justify="right" if col in ("margin",) else "left")
         for v in summary["worst"]:
             worst.add_row(
@@ -122,8 +160,9 @@ def render_terminal(
                 v.gas,
                 fmt.p(float(max(v.path_P_Pa))),
                 fmt.p(v.allowable_pressure_Pa),
-                f"{v.margin_to_allowable:+.1%}",
+                margin_text(v.margin_to_allowable),
                 _verdict_text(v.verdict),
+                failed_codes(v),
             )
         console.print(worst)
         shown = summary["flagged"][:DETAIL_LIMIT]

@@ -59,7 +59,11 @@ def finding_message(f: Finding, system: units.UnitSystem = "metric", atm: float 
         # a fill entered at the marked pressure is solved back to it within round-off
         sign = "+" if margin >= -RATED_TOLERANCE * d["limit_Pa"] else "-"
         margin = max(margin, 0.0) if sign == "+" else margin
-        share = f" ({margin / gauge:+.1%} of the gauge limit)" if gauge > 0 else ""
+        share = (
+            f" ({units.format_share(margin / gauge, signed=True)} of the gauge limit)"
+            if gauge > 0
+            else ""
+        )
         return (
             f"{_rated(d, p, t)}: settled pressure there {p(d['settled_pressure_Pa'])}, margin "
             f"{sign}{_span(abs(margin), system)}{share}"
@@ -71,7 +75,8 @@ def finding_message(f: Finding, system: units.UnitSystem = "metric", atm: float 
         )
         if d.get("max_safe_gross_mass_kg") is not None:
             said += (
-                f"; stop a fill by weight at a scale reading of {m(d['max_safe_gross_mass_kg'])}"
+                "; stop a fill by weight at a scale reading of "
+                f"{units.format_mass(d['max_safe_gross_mass_kg'], system, down=True)}"
             )
         return said
     return f.code

@@ -22,6 +22,7 @@ import numpy as np
 from fillcheck.errors import ConvergenceError, InputError, ModelUnavailableError, StateError
 from fillcheck.fluids.accuracy import ModelError, accuracy_for
 from fillcheck.fluids.catalog import FluidData, lookup
+from fillcheck.fluids.citation import citation
 from fillcheck.fluids.classification import MixtureClass, classify
 from fillcheck.fluids.mixing import cubic_kij, cubic_kij_matrix
 from fillcheck.models.base import FloatArray
@@ -81,8 +82,8 @@ def classify_mixture(components: Sequence[FluidData], z: np.ndarray) -> MixtureC
 
 
 def _publication(source: str) -> str:
-    """The publication part of a catalog source note."""
-    return source.split(" [CoolProp key")[0].split(" (figures")[0].split(":")[0]
+    """The publication a catalog source note names (fluids.citation)."""
+    return citation(source)
 
 
 def _short_kij_source(source: str) -> str:
