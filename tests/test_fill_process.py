@@ -55,6 +55,30 @@ def _coolprop_end_T(name: str, m_kg: float, P_supply: float, wall_J_K: float) ->
     return _bisect(g, 200.0, 900.0)
 
 
+FILLS = [
+    {},
+    {"wall_heat_capacity_J_K": 27840.0, "heat_transfer": "lumped"},
+    {"source": "compressor", "inlet_temperature_K": 313.15, "supply_pressure_Pa": None},
+    {
+        "wall_heat_capacity_J_K": 27840.0,
+        "heat_transfer": "two-node",
+        "gas_wall_conductance_W_K": 150.0,
+        "wall_ambient_conductance_W_K": 10.0,
+    },
+    {
+        "source": "compressor",
+        "inlet_temperature_K": 313.15,
+        "supply_pressure_Pa": None,
+        "wall_heat_capacity_J_K": 27840.0,
+        "heat_transfer": "two-node",
+        "gas_wall_conductance_W_K": 150.0,
+    },
+]
+"""The fills of a 50 L nitrogen vessel that the curve tests run over (valve, compressor; each
+heat-transfer model)."""
+FILL_IDS = ["adiabatic", "lumped", "compressor", "two-node", "compressor-two-node"]
+
+
 def _spec(**kw) -> FillSpec:
     base = dict(
         source="supply",
@@ -159,29 +183,7 @@ def test_mixture_fill_against_coolprop() -> None:
 # --- conservation and limits ------------------------------------------------------------------
 
 
-@pytest.mark.parametrize(
-    "kw",
-    [
-        {},
-        {"wall_heat_capacity_J_K": 27840.0, "heat_transfer": "lumped"},
-        {"source": "compressor", "inlet_temperature_K": 313.15, "supply_pressure_Pa": None},
-        {
-            "wall_heat_capacity_J_K": 27840.0,
-            "heat_transfer": "two-node",
-            "gas_wall_conductance_W_K": 150.0,
-            "wall_ambient_conductance_W_K": 10.0,
-        },
-        {
-            "source": "compressor",
-            "inlet_temperature_K": 313.15,
-            "supply_pressure_Pa": None,
-            "wall_heat_capacity_J_K": 27840.0,
-            "heat_transfer": "two-node",
-            "gas_wall_conductance_W_K": 150.0,
-        },
-    ],
-    ids=["adiabatic", "lumped", "compressor", "two-node", "compressor-two-node"],
-)
+@pytest.mark.parametrize("kw", FILLS, ids=FILL_IDS)
 def test_energy_conserved_to_round_off_along_the_curve(kw: dict) -> None:
     f = fillcheck.fluid("nitrogen")
     c = fill_curve(f, V50, 11.0 / f.molar_mass, _spec(**kw))
@@ -586,21 +588,7 @@ def test_html_has_the_fill_process_and_its_chart(tmp_path: Path) -> None:
 # --- the flow profile and the wall from the marked tare ---------------------------------------
 
 
-@pytest.mark.parametrize(
-    "kw",
-    [
-        {},
-        {"wall_heat_capacity_J_K": 27840.0, "heat_transfer": "lumped"},
-        {"source": "compressor", "inlet_temperature_K": 313.15, "supply_pressure_Pa": None},
-        {
-            "wall_heat_capacity_J_K": 27840.0,
-            "heat_transfer": "two-node",
-            "gas_wall_conductance_W_K": 150.0,
-            "wall_ambient_conductance_W_K": 8.0,
-        },
-    ],
-    ids=["adiabatic", "lumped", "compressor", "two-node"],
-)
+@pytest.mark.parametrize("kw", FILLS, ids=FILL_IDS)
 def test_pressure_ramp_rises_at_a_constant_rate(kw: dict) -> None:
     f = fillcheck.fluid("nitrogen")
     n = 11.0 / f.molar_mass

@@ -12,10 +12,8 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 
+from fillcheck.fluids.catalog import lookup
 from fillcheck.fluids.classification import CI, OXIDIZING_THRESHOLD, OXYGEN_DEFICIENT, TRACE
-
-AIR_MOLAR_MASS = 0.02896546
-"""Molar mass of dry air [kg/mol] (Lemmon et al. (2000), J. Phys. Chem. Ref. Data 29, 331)."""
 
 HEAVY_RATIO = 1.05
 """A gas at least this many times air's molar mass is said to collect low (a fillcheck choice:
@@ -140,8 +138,9 @@ def _hazard_cautions(g: GasFacts) -> list[Caution]:
     hazardous = (
         bool(hz & {"asphyxiant", "toxic", "flammable", "corrosive"}) or co2 >= CO2_EXPOSURE[0]
     )
-    if hazardous and g.molar_mass >= HEAVY_RATIO * AIR_MOLAR_MASS:
-        out.append(Caution("heavier-than-air", {"molar_mass": g.molar_mass, "air": AIR_MOLAR_MASS}))
+    air = lookup("air").molar_mass_kg_mol  # the catalog's dry air (its source beside it)
+    if hazardous and g.molar_mass >= HEAVY_RATIO * air:
+        out.append(Caution("heavier-than-air", {"molar_mass": g.molar_mass, "air": air}))
     return out
 
 
