@@ -50,6 +50,7 @@ from fillcheck.models.multifluid import GAS_CONSTANT
 from fillcheck.thermo import mixture_equilibrium as eq
 from fillcheck.thermo import properties
 from fillcheck.thermo.mixture_fluid import MixtureFluid
+from fillcheck.thermo.mixture_vessel import mixture_vessel_path
 
 #: CoolProp 8.0.0 fluid names of the catalog gases used here (the ``coolprop_name`` of each
 #: reference-equation file in fillcheck/fluids/data/reference/).
@@ -780,3 +781,60 @@ def test_composition_sweep_sample(comp: dict[str, float], physics: bool) -> None
 @pytest.mark.parametrize("comp", SWEEP_ALL, ids=_sweep_id)
 def test_composition_sweep_full(comp: dict[str, float]) -> None:
     _sweep_one(comp, SWEEP_T, SWEEP_P, SWEEP_RHO_KG, physics=True)
+
+
+# --- liquid roots of trial phases: no landing on an inner loop --------------------------------
+
+#: Argon-rich argon + carbon dioxide vessels that the 10,000-scenario slow run of
+#: test_safety_invariants once reported as "unstable, but no split found": the stability test's
+#: carbon-dioxide-rich trial phase took a liquid root on a rising inner loop of the equation
+#: (11 004 mol/m³ at 280.62 K, where the isotherm rises to about 2 GPa inside the two-phase dome),
+#: whose Gibbs energy was spuriously low. The states are gas: CoolProp 8.0.0 HEOS calls them
+#: iphase_gas at (T, ρ) and returns the same ρ from its (T, P) flash at that pressure.
+INNER_LOOP_CASES = [
+    (0.875, 280.62, 579.727),
+    (0.863, 278.202, 219.729),
+]
+
+
+@pytest.mark.parametrize("x_ar,T,rho", INNER_LOOP_CASES)
+def test_argon_rich_carbon_dioxide_gas_is_one_phase(x_ar: float, T: float, rho: float) -> None:
+    """Source: CoolProp 8.0.0 HEOS, DmolarT_INPUTS then PT_INPUTS (see INNER_LOOP_CASES)."""
+    comp = _comp(argon=x_ar, carbon_dioxide=1.0 - x_ar)
+    f = _mix(comp)
+    AS = _heos(comp)
+    AS.update(CP.DmolarT_INPUTS, rho, T)
+    assert AS.phase() == CP.iphase_gas
+    flash = _heos(comp)
+    flash.update(CP.PT_INPUTS, AS.p(), T)
+    assert flash.phase() == CP.iphase_gas
+    assert flash.rhomolar() == pytest.approx(rho, rel=1e-9)
+    path = mixture_vessel_path(f, np.array([T]), np.array([rho]))
+    assert path.phase[0] != "two-phase"
+    assert path.P[0] == pytest.approx(AS.p(), rel=1e-9)
+
+
+def test_no_liquid_root_taken_from_an_inner_loop() -> None:
+    """A carbon-dioxide-rich trial phase at 280.62 K and 13.31 bar lies beyond the liquid
+    spinodal: every state of the liquid branch (densities above the last one where the isotherm
+    falls) is above 13.31 bar (its lowest about 14.1 bar near 18 100 mol/m³), so there is no
+    liquid root and none may be reported, least of all the rising inner loop at 11 004 mol/m³
+    that a Newton step can land on. (CoolProp 8.0.0 with iphase_liquid imposed returns that
+    inner-loop root, so it is no reference here; the test is the definition of the liquid
+    branch on a fine grid.)"""
+    f = _mix(_comp(argon=0.875, carbon_dioxide=0.125))
+    T, P = np.array([280.62]), np.array([1331006.75833188])
+    w = np.array([[0.001, 0.999]])
+    _, rl = eq.density_roots(f.mixture, T, P, w, f.starter, strict=False, fill=False)
+    grid = np.linspace(5_000.0, 0.99 * float(f.mixture.max_density_mol(w)[0]), 4000)
+    TT, ww = np.full(grid.size, T[0]), np.repeat(w, grid.size, axis=0)
+    d = f.mixture.alphar(TT, grid, ww)
+    falls = np.flatnonzero(1.0 + 2.0 * d.a01 + d.a02 <= 0.0)
+    branch = grid[falls[-1] + 1 :]
+    assert np.all(eq.pressure(f.mixture, TT[: branch.size], branch, ww[: branch.size]) > P[0])
+    assert np.isnan(rl[0])
+    rho = eq.stable_density(f.mixture, T, P, w, f.starter, strict=False)
+    # the vapour root, on a rising vapour branch (CoolProp 8.0.0's unimposed PT flash of this
+    # trial composition returns the inner-loop root, 11 004 mol/m³, as "liquid")
+    assert eq.pressure(f.mixture, T, rho, w)[0] == pytest.approx(P[0], rel=1e-9)
+    assert rho[0] < 700.0

@@ -181,6 +181,19 @@ def density_roots(
         Tb = np.broadcast_to(np.asarray(T, dtype=float), rv.shape)[i]
         xb = np.asarray(x, dtype=float).reshape(rv.size, -1)[i]
         rv[i] = np.where(_on_vapour_branch(model, Tb, xb, rv[i]), rv[i], np.nan)
+    # a Newton step from the liquid side can jump over the flat stretch near the liquid
+    # spinodal onto a rising part of an inner loop (Span–Wagner carbon dioxide at 280 K rises
+    # to 2 GPa at 12,500 mol/m³, inside the two-phase dome); a root well below its start is
+    # kept only if the isotherm rises all the way from it to the start
+    with np.errstate(invalid="ignore"):
+        far_l = np.isfinite(rl) & (rl < LIQUID_CHECK_RATIO * l0)
+    if np.any(far_l):
+        i = np.flatnonzero(far_l)
+        Tb = np.broadcast_to(np.asarray(T, dtype=float), rl.shape)[i]
+        Pb = np.broadcast_to(np.asarray(P, dtype=float), rl.shape)[i]
+        xb = np.asarray(x, dtype=float).reshape(rl.size, -1)[i]
+        l0b = np.broadcast_to(l0, rl.shape)[i]
+        rl[i] = _liquid_branch_root(model, Tb, Pb, xb, rl[i], l0b)
     if not fill:  # the two branches as found (NaN: no root on that branch)
         return rv, rl
     rv = np.where(np.isnan(rv), rl, rv)
@@ -193,6 +206,50 @@ def density_roots(
         )
     return rv, rl
 
+
+def _liquid_branch_root(model: MixtureModel, T, P, x, rl, top) -> np.ndarray:
+    """The root on the liquid branch of the isotherm at P [Pa], given a root ρ_l found below
+    the outer start ``top`` [mol/m³]: ρ_l itself where (∂P/∂ρ)_T > 0 all the way from ρ_l
+    to ``top``; otherwise the root between the highest density where the isotherm does not
+    rise and ``top``, by bisection in ln ρ, or NaN where the pressure there is already above
+    P (no liquid root at P: the branch starts above it)."""
+    g = _LIQUID_BRANCH_GRID
+    k = g.size
+    lo, hi = np.log(rl), np.log(top)
+    r = np.exp(lo[:, None] + (hi - lo)[:, None] * g[None, :])
+    TT, xx = np.repeat(T, k), np.repeat(x, k, axis=0)
+    with np.errstate(invalid="ignore", over="ignore"):
+        d = model.alphar(TT, r.ravel(), xx)
+        rising = (1.0 + 2.0 * d.a01 + d.a02).reshape(-1, k) > 0.0
+    out = rl.copy()
+    bad = ~np.all(rising, axis=1)
+    if not np.any(bad):
+        return out
+    b = np.flatnonzero(bad)
+    # the first grid point above the last one that does not rise
+    last = k - 1 - np.argmax(~rising[b, ::-1], axis=1)
+    start = np.minimum(last + 1, k - 1)
+    a = np.log(r[b, start])
+    c = np.full(b.size, hi[b])
+    Tb, Pb, xb = T[b], P[b], x[b]
+    f_a = pressure(model, Tb, np.exp(a), xb) - Pb
+    found = f_a <= 0.0
+    for _ in range(60):
+        m = 0.5 * (a + c)
+        above = pressure(model, Tb, np.exp(m), xb) - Pb > 0.0
+        c = np.where(above, m, c)
+        a = np.where(above, a, m)
+    out[b] = np.where(found, np.exp(0.5 * (a + c)), np.nan)
+    return out
+
+
+LIQUID_CHECK_RATIO = 0.8
+"""A liquid root below this fraction of its outer start is checked to lie on the liquid
+branch (the start is 1.15 times the cubic's liquid root; real liquid roots lie within about
+10 % of that root)."""
+
+_LIQUID_BRANCH_GRID = np.linspace(0.0, 1.0, 41)
+"""Fractions of the ln ρ interval from a liquid root to its outer start that are checked."""
 
 _VAPOUR_BRANCH_GRID = np.linspace(0.02, 0.995, 40)
 """Fractions of a vapour root's density at which the isotherm is checked to rise."""
