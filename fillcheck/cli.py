@@ -147,7 +147,7 @@ def check(
             scenario = load_scenario(file)
         with _progress(len(scenario.vessels)) as tick:
             system = _system(units, scenario)
-            result = assess_scenario(scenario, system, tick, is_register=register)
+            result = assess_scenario(scenario, tick, is_register=register)
         record = _record(scenario, file)
     if html_out is not None:
         from fillcheck.report.html_report import render_html, write_html
@@ -162,7 +162,7 @@ def check(
     if json_out:
         from fillcheck.report.json_report import render_json
 
-        typer.echo(render_json(result, record))
+        typer.echo(render_json(result, record, system))
     else:
         from fillcheck.report.terminal import render_terminal
 
@@ -208,8 +208,8 @@ def _check_jsonl(file: Path, out: str, force: bool, units: Units | None) -> None
                 sc = load_scenario(file)
                 system = _system(units, sc)
                 results = (
-                    vessel_dict(a)
-                    for a in assess_many(sc.vessels, sc.reference_temperature_K, system)  # type: ignore[arg-type]
+                    vessel_dict(a, sc.atmospheric_pressure_Pa, system)  # type: ignore[arg-type]
+                    for a in assess_many(sc.vessels, sc.reference_temperature_K)
                 )
             for result in results:
                 sink.write(json.dumps(result, ensure_ascii=False) + "\n")

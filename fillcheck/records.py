@@ -97,8 +97,8 @@ def _stream(
                     "give every vessel its own id"
                 )
             seen.add(v.id)
-        for a in assess_many(sc.vessels, sc.reference_temperature_K, system):
-            yield vessel_dict(a)
+        for a in assess_many(sc.vessels, sc.reference_temperature_K):
+            yield vessel_dict(a, sc.atmospheric_pressure_Pa, system)
 
     for n, record in numbered:
         unknown = [k for k in record if k not in COLUMNS]

@@ -25,6 +25,7 @@ import pytest
 
 import fillcheck
 from fillcheck.assess import ScenarioAssessment, VesselAssessment, assess_scenario
+from fillcheck.report.wording import finding_message
 from fillcheck.scenario.resolve import Scenario, VesselInput, load_scenario
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -221,7 +222,7 @@ def test_mixture_demo_shows_what_it_is_meant_to(
 ) -> None:
     v, a = _assessed(demos, scenario, vessel_id)
     codes = {f.code for f in a.findings}
-    assert a.verdict == verdict, [(f.code, f.message) for f in a.findings]
+    assert a.verdict == verdict, [(f.code, finding_message(f)) for f in a.findings]
     assert must <= codes
     assert not (must_not & codes)
     # every pair of these mixtures has published multi-fluid parameters: no estimate anywhere
@@ -245,7 +246,7 @@ def test_mixture_demo_shows_what_it_is_meant_to(
     assert T_min < a.liquid_forms_below_K < v.fill_temperature_K
     assert a.min_state.phase == "two-phase"
     assert 0.0 < d.liquid_volume_fraction < 0.5
-    message = next(f.message for f in a.findings if f.code == "liquid-dropout")
+    message = next(finding_message(f) for f in a.findings if f.code == "liquid-dropout")
     assert condensing in message
 
 

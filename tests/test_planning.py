@@ -14,6 +14,7 @@ from fillcheck.assess.planning import read_gauge, stop_table
 from fillcheck.assess.rules import rule_limits
 from fillcheck.assess.vessel import assess_vessel
 from fillcheck.errors import InputError
+from fillcheck.report.wording import finding_message
 from fillcheck.scenario.resolve import scenario_from_dict
 
 ATM = 101_325.0
@@ -172,7 +173,7 @@ def test_rule_set_in_a_scenario_fails_an_overfill_and_names_the_source() -> None
     a = assess_vessel(v, T_ref)
     codes = {f.code for f in a.findings}
     assert "rule-broken" in codes and a.verdict == "fail"
-    assert any("P200" in f.message for f in a.findings if f.code == "rule-set")
+    assert any("P200" in finding_message(f) for f in a.findings if f.code == "rule-set")
 
 
 def test_rule_set_for_the_wrong_kind_of_gas_is_refused() -> None:

@@ -20,6 +20,7 @@ from fillcheck.cli import app
 from fillcheck.report.content import register_summary
 from fillcheck.report.html_report import render_html
 from fillcheck.report.terminal import render_terminal
+from fillcheck.report.wording import finding_message
 from fillcheck.scenario.register import register_from_text
 from fillcheck.scenario.resolve import load_scenario, scenario_from_dict
 
@@ -205,7 +206,7 @@ def test_register_summary_margin_equals_the_vessel_detail_margin() -> None:
     detail = {
         v.id: re.search(
             r"\(([+-]\d+\.\d) % of the gauge limit\)",
-            next(f.message for f in v.findings if f.code == "margin-allowable"),
+            next(finding_message(f) for f in v.findings if f.code == "margin-allowable"),
         ).group(1)
         for v in a.vessels
     }
@@ -449,9 +450,47 @@ def test_margin_below_model_error_is_said_in_pressure_not_a_third_share() -> Non
     # whose margin is smaller than the model's uncertainty (README, hydrogen_bank.toml).
     a = assess_scenario(load_scenario(REPO / "scenarios" / "hydrogen_bank.toml"))
     said = [
-        f.message for v in a.vessels for f in v.findings if f.code == "margin-below-model-error"
+        finding_message(f)
+        for v in a.vessels
+        for f in v.findings
+        if f.code == "margin-below-model-error"
     ]
     assert said, "the demo's review case"
     for m in said:
         assert re.search(r"lies \d+\.\d bar below the ", m), m
         assert re.search(r"\d+\.\d bar at the limit", m), m
+
+
+# --- findings as data: assess/ writes no words, report/ words every code ----------------------
+
+
+def test_assess_writes_no_words_or_units() -> None:
+    """The assessment yields findings as data: no module of fillcheck/assess imports the unit
+    formatting (fillcheck.units) or takes a unit system."""
+    root = REPO / "fillcheck" / "assess"
+    for path in root.glob("*.py"):
+        text = path.read_text(encoding="utf-8")
+        assert "from fillcheck import units" not in text, path.name
+        assert "UnitSystem" not in text, path.name
+
+
+def test_every_finding_of_the_demos_is_worded(demo_reports) -> None:
+    """Each finding given as data has a sentence in both unit systems (not its bare code)."""
+    from fillcheck.report.fill_words import FILL_WORDS
+    from fillcheck.report.finding_words import WORDS
+
+    seen = set()
+    for a, _ in demo_reports.values():
+        for v in a.vessels:
+            for f in v.findings:
+                for system in ("metric", "us"):
+                    said = finding_message(f, system, v.atmospheric_pressure_Pa)
+                    assert said and said != f.code, (f.code, v.id)
+                if not f.message:
+                    seen.add(f.code)
+    assert seen <= set(WORDS) | set(FILL_WORDS) | {
+        "working-pressure-exceeded",
+        "margin-working",
+        "gross-mass",
+    }
+    assert {"charge", "margin-allowable", "liquid-present", "fill-process"} <= seen

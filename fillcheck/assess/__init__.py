@@ -8,17 +8,15 @@ from fillcheck.assess.batch import assess_many
 from fillcheck.assess.result import Finding, ScenarioAssessment, VesselAssessment
 from fillcheck.assess.vessel import assess_vessel
 from fillcheck.scenario.resolve import Scenario
-from fillcheck.units import UnitSystem
 
 
 def assess_scenario(
     scenario: Scenario,
-    system: UnitSystem = "metric",
     progress: Callable[[int, int], None] | None = None,
     is_register: bool = False,
 ) -> ScenarioAssessment:
-    """Assess every vessel of a validated scenario (messages in the given unit system)."""
-    vessels = assess_many(scenario.vessels, scenario.reference_temperature_K, system, progress)
+    """Assess every vessel of a validated scenario (findings as data: report/ words them)."""
+    vessels = assess_many(scenario.vessels, scenario.reference_temperature_K, progress)
     return ScenarioAssessment(
         scenario.source,
         scenario.title,

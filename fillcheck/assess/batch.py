@@ -14,7 +14,6 @@ from collections.abc import Callable, Sequence
 
 import numpy as np
 
-from fillcheck import units
 from fillcheck.assess.cautions import cautions_for, gas_facts
 from fillcheck.assess.charge import largest_safe_densities
 from fillcheck.assess.checked_range import checked_ranges
@@ -138,7 +137,6 @@ CHUNK_VESSELS = 2000
 def assess_many(
     vessels: Sequence[VesselInput],
     T_ref: float,
-    system: units.UnitSystem = "metric",
     progress: Callable[[int, int], None] | None = None,
 ) -> list[VesselAssessment]:
     """Assess vessels (in their order), vectorised per gas and model.
@@ -155,7 +153,7 @@ def assess_many(
             chunk = idx[lo : lo + CHUNK_VESSELS]
             small = len(idx) <= SMALL_BATCH
             vs = [vessels[i] for i in chunk]
-            for i, a in zip(chunk, _assess_group(vs, T_ref, system, small), strict=True):
+            for i, a in zip(chunk, _assess_group(vs, T_ref, small), strict=True):
                 out[i] = a
             done += len(chunk)
             if progress is not None:
@@ -173,9 +171,7 @@ def _crossings(f: Fluid, rho: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     return saturation_crossings(f, rho)
 
 
-def _assess_group(
-    vs: Sequence[VesselInput], T_ref: float, system: units.UnitSystem, small: bool
-) -> list[VesselAssessment]:
+def _assess_group(vs: Sequence[VesselInput], T_ref: float, small: bool) -> list[VesselAssessment]:
     f = vs[0].fluid
     n = len(vs)
     R, M = f.eos.R, f.molar_mass
@@ -259,7 +255,7 @@ def _assess_group(
             model=f.model,
             model_name=f.model_name,
             model_references=f.references,
-            model_validity=_validity_text(f, system),
+            model_validity=f.validity,
             data_sources=dict(f.data.sources),
             count=v.count,
             water_capacity_m3=v.water_capacity_m3,
@@ -306,17 +302,17 @@ def _assess_group(
         a.saturation_T_K, a.saturation_P_Pa = sat_curve[j]
         # a mixture filled as a gas that only condenses in the cold is not a liquefied gas
         a.liquefied = bool(liquefied_at_ref[j]) if mixture else None
-        a.findings, a.limits_checked = vessel_findings(v, a, p_j, system)
+        a.findings, a.limits_checked = vessel_findings(v, a, p_j)
         apply_marking(v, a, rated[j])
         if v.filling is not None:  # the fill process (assess.fill_process)
             a.filling = fill_result(v, T_ref)
-            a.findings += filling_findings(v, a.filling, system)
-            a.findings += plan_fill_findings(v, a, T_ref, system)
-            a.limits_checked += fill_limits_checked(v, system)
+            a.findings += filling_findings(v, a.filling)
+            a.findings += plan_fill_findings(v, a, T_ref)
+            a.limits_checked += fill_limits_checked(v)
         if mixture:
             a.composition = dict(zip(f.component_names, map(float, f.z), strict=True))
             a.dropout = dropout_at_coldest(f, path, slice(j * k, (j + 1) * k))
-            a.findings += mixture_findings(f, a.dropout, v.notes, system, a.liquefied)
+            a.findings += mixture_findings(f, a.dropout, v.notes, a.liquefied)
         liquid = any(x.code in ("liquid-present", "liquid-full-at-top") for x in a.findings)
         near = any(x.code == "near-critical" for x in a.findings)
         a.cautions = cautions_for(
@@ -362,16 +358,6 @@ def _num(x: float) -> float | None:
 
 def _end(T, P, phase, rho, R, i) -> EndState:
     return EndState(float(T[i]), float(P[i]), str(phase[i]), float(P[i] / (rho * R * T[i])))
-
-
-def _validity_text(f: Fluid, system: units.UnitSystem) -> str:
-    """The model's validity range in the report's units."""
-    val = f.validity
-    P = units.format_pressure(val.P_max_Pa, system, gauge=False, digits=0)
-    return (
-        f"{units.format_temperature(val.T_min_K, system)} to "
-        f"{units.format_temperature(val.T_max_K, system)}, up to {P} ({val.source})"
-    )
 
 
 def _saturation_curve(f: Fluid, TT: np.ndarray) -> list[tuple[np.ndarray, np.ndarray]]:

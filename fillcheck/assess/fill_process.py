@@ -19,8 +19,7 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from fillcheck import units
-from fillcheck.assess.result import Finding
+from fillcheck.assess.result import Checked, Finding
 from fillcheck.errors import FillcheckError
 from fillcheck.thermo.bracketed import illinois
 from fillcheck.thermo.fill_balance import FillCurve, FillSpec, fill_curve
@@ -268,75 +267,70 @@ def hot_end_temperature_K(v: VesselInput, T_ref: float) -> float | None:
     return r.stop_temperature_K if r.stop_temperature_K is not None else r.end_temperature_K
 
 
-def filling_findings(
-    v: VesselInput, r: FillResult | None, system: units.UnitSystem = "metric"
-) -> list[Finding]:
+def _how(f: FillingInput) -> dict[str, Any]:
+    """How the vessel is filled, as data: the source and the heat model."""
+    return {
+        "source": "cascade"
+        if f.source == "cascade"
+        else ("valve" if f.supply_pressure_Pa is not None else "compressor"),
+        "banks": len(f.banks) if f.source == "cascade" else 0,
+        "supply_pressure_Pa": f.supply_pressure_Pa,
+        "inlet_temperature_K": f.inlet_temperature_K,
+        "heat_transfer": f.heat_transfer,
+        "wall_heat_capacity_J_K": f.wall_heat_capacity_J_K,
+    }
+
+
+def filling_findings(v: VesselInput, r: FillResult | None) -> list[Finding]:
     """The fill process's findings (codes ``fill-process``, ``fill-temperature-exceeded``,
-    ``fill-temperature-margin``, ``fill-supply-short``, ``fill-not-computed``)."""
+    ``fill-temperature-margin``, ``fill-supply-short``, ``fill-not-computed``), as data."""
     f = v.filling
     if f is None or r is None:
         return []
-    atm = v.atmospheric_pressure_Pa
-
-    def p(x: float) -> str:
-        return units.format_pressure(x, system, gauge=True, atmospheric_pressure_Pa=atm)
-
-    def t(x: float) -> str:
-        return units.format_temperature(x, system)
-
     if r.error is not None:
-        out = [
-            Finding(
-                "fill-not-computed",
-                "review",
-                f"The fill process could not be computed: {r.error}; the end-of-fill state is "
-                "not in the checked range.",
-            )
-        ]
+        out = [Finding("fill-not-computed", "review", "", {"error": r.error})]
         if f.max_fill_temperature_K is not None:
             out.append(
                 Finding(
                     "fill-temperature-unknown",
                     "review",
-                    f"The peak gas temperature is unknown, so the limit of "
-                    f"{t(f.max_fill_temperature_K)} is not checked.",
+                    "",
+                    {"limit_K": f.max_fill_temperature_K},
                 )
             )
         return out
     assert r.peak_temperature_K is not None and r.settled_pressure_Pa is not None
-    heat = {
-        "adiabatic": "the gas alone (adiabatic)",
-        "lumped": f"the wall sharing the heat ({f.wall_heat_capacity_J_K / 1e3:.1f} kJ/K)",
-        "two-node": "gas and wall nodes with heat transfer",
-    }[f.heat_transfer]
-    if f.source == "cascade":
-        src = f"a cascade of {len(f.banks)} banks"
-    elif f.supply_pressure_Pa is not None:
-        src = (
-            f"a supply at {p(f.supply_pressure_Pa)} and {t(f.inlet_temperature_K)} through a valve"
-        )
-    else:
-        src = f"a compressor delivering at {t(f.inlet_temperature_K)}"
+    how = _how(f)
     if r.stop_pressure_Pa is None:  # a cascade that runs out: the end state only
         assert r.end_pressure_Pa is not None and r.added_mass_kg is not None
         out = [
             Finding(
                 "fill-supply-short",
                 "warning",
-                f"Filled from {src}, {heat}: the banks run out before the charge is in; the "
-                f"fill ends at {p(r.end_pressure_Pa)} and {t(r.end_temperature_K or 0.0)} "
-                f"with {units.format_mass(r.added_mass_kg, system)} added, settling at "
-                f"{p(r.settled_pressure_Pa)}; peak gas temperature {t(r.peak_temperature_K)}.",
+                "",
+                how
+                | {
+                    "banks_run_out": True,
+                    "end_pressure_Pa": r.end_pressure_Pa,
+                    "end_temperature_K": r.end_temperature_K or 0.0,
+                    "added_mass_kg": r.added_mass_kg,
+                    "settled_pressure_Pa": r.settled_pressure_Pa,
+                    "peak_temperature_K": r.peak_temperature_K,
+                },
             )
         ]
-        return out + _peak_findings(f, r, t, system)
+        return out + _peak_findings(f, r)
     out = [
         Finding(
             "fill-process",
             "info",
-            f"Filled from {src}, {heat}: stop the fill at {p(r.stop_pressure_Pa)} while the "
-            f"gas is at {t(r.stop_temperature_K)} (the checked range reaches this hot state); "
-            f"peak gas temperature {t(r.peak_temperature_K)}.",
+            "",
+            how
+            | {
+                "stop_pressure_Pa": r.stop_pressure_Pa,
+                "stop_temperature_K": r.stop_temperature_K,
+                "peak_temperature_K": r.peak_temperature_K,
+            },
         )
     ]
     if not r.complete:
@@ -345,53 +339,38 @@ def filling_findings(
             Finding(
                 "fill-supply-short",
                 "warning",
-                f"The supply's pressure is reached before the charge is in: the fill ends at "
-                f"{p(r.end_pressure_Pa)} and {t(r.end_temperature_K or 0.0)} with "
-                f"{units.format_mass(r.added_mass_kg, system)} added, settling at "
-                f"{p(r.settled_pressure_Pa)}; the charge needs a stop at "
-                f"{p(r.stop_pressure_Pa)} (a higher supply pressure or a cascade).",
+                "",
+                {
+                    "banks_run_out": False,
+                    "end_pressure_Pa": r.end_pressure_Pa,
+                    "end_temperature_K": r.end_temperature_K or 0.0,
+                    "added_mass_kg": r.added_mass_kg,
+                    "settled_pressure_Pa": r.settled_pressure_Pa,
+                    "stop_pressure_Pa": r.stop_pressure_Pa,
+                },
             )
         )
-    return out + _peak_findings(f, r, t, system)
+    return out + _peak_findings(f, r)
 
 
-def _peak_findings(
-    f: FillingInput, r: FillResult, t: Any, system: units.UnitSystem
-) -> list[Finding]:
+def _peak_findings(f: FillingInput, r: FillResult) -> list[Finding]:
     """The peak gas temperature against ``limits.max_fill_temperature``."""
-    out: list[Finding] = []
     limit = f.max_fill_temperature_K
     assert r.peak_temperature_K is not None
-    if limit is not None:
-        if r.peak_temperature_K > limit:
-            out.append(
-                Finding(
-                    "fill-temperature-exceeded",
-                    "fail",
-                    f"The gas reaches {t(r.peak_temperature_K)} during the fill, above the "
-                    f"limit of {t(limit)}: fill more slowly, cool the supply or fill in stages.",
-                )
-            )
-        else:
-            out.append(
-                Finding(
-                    "fill-temperature-margin",
-                    "info",
-                    f"Peak gas temperature {t(r.peak_temperature_K)}, "
-                    f"{units.format_temperature_difference(limit - r.peak_temperature_K, system)}"
-                    f" below the limit of {t(limit)}.",
-                )
-            )
-    return out
+    if limit is None:
+        return []
+    data = {"peak_temperature_K": r.peak_temperature_K, "limit_K": limit}
+    if r.peak_temperature_K > limit:
+        return [Finding("fill-temperature-exceeded", "fail", "", data)]
+    return [Finding("fill-temperature-margin", "info", "", data)]
 
 
-def limits_checked(v: VesselInput, system: units.UnitSystem = "metric") -> list[str]:
+def limits_checked(v: VesselInput) -> list[Checked]:
     """The fill-process limits the verdict covers."""
     f = v.filling
     if f is None or f.max_fill_temperature_K is None:
         return []
-    T = units.format_temperature(f.max_fill_temperature_K, system)
-    return [f"peak gas temperature during the fill {T}"]
+    return [Checked("peak-fill-temperature", f.max_fill_temperature_K)]
 
 
 PLAN_CLEARANCE = 1e-3
@@ -401,9 +380,7 @@ SEARCH_STEPS = 20
 """Time steps of each trial fill while searching the largest charge of a path-dependent fill."""
 
 
-def plan_fill_findings(
-    v: VesselInput, a: Any, T_ref: float, system: units.UnitSystem = "metric"
-) -> list[Finding]:
+def plan_fill_findings(v: VesselInput, a: Any, T_ref: float) -> list[Finding]:
     """Keep the plan within the fill process: ``fill-plan-hot`` (warning).
 
     The plan (assess.charge) checks the hot end of the charge asked for; a larger charge filled
@@ -468,36 +445,19 @@ def plan_fill_findings(
             m_ok = float(br.a[0])
     except (FillcheckError, ArithmeticError, ValueError):
         return []
-    atm = v.atmospheric_pressure_Pa
-
-    def p(x: float) -> str:
-        return units.format_pressure(x, system, gauge=True, atmospheric_pressure_Pa=atm)
-
-    def t(x: float) -> str:
-        return units.format_temperature(x, system)
-
-    broken = (
-        "the peak gas temperature limit"
+    data: dict[str, Any] = {
+        "plan_mass_kg": m_plan,
+        "plan_end_pressure_Pa": P_plan,
+        "plan_peak_temperature_K": T_plan,
+        "broken": "peak-temperature"
         if T_cap is not None and T_plan > T_cap and P_plan <= cap
-        else f"the {name}"
-    )
-    said = (
-        f"Filled this way, the largest charge the storage range allows, "
-        f"{units.format_mass(m_plan, system, down=True)}, would end the fill at {p(P_plan)} with "
-        f"the gas at {t(T_plan)}, beyond {broken} (with the model's uncertainty); "
-    )
+        else name.split()[0],
+    }
     if m_ok is None:
         a.max_safe_charge_kg = None
         a.max_safe_fill_pressure_Pa = None
         a.governing_limit = "the fill process"
-        return [
-            Finding(
-                "fill-plan-hot",
-                "warning",
-                said + "no charge keeps it filled this way: change the fill (slower, cooler "
-                "supply, a wall that shares the heat).",
-            )
-        ]
+        return [Finding("fill-plan-hot", "warning", "", data | {"lowered_mass_kg": None})]
     P_ok, T_ok, _ = end(m_ok)
     a.max_safe_charge_kg = round(m_ok, 9)
     a.governing_limit = f"{name} at the end of the fill"
@@ -507,11 +467,9 @@ def plan_fill_findings(
         a.max_safe_fill_pressure_Pa = float(
             vessel_path(fluid, np.array([v.fill_temperature_K]), np.array([m_ok / M / V])).P[0]
         )
-    return [
-        Finding(
-            "fill-plan-hot",
-            "warning",
-            said + f"the plan is lowered to {units.format_mass(m_ok, system, down=True)}, whose "
-            f"fill ends at {p(P_ok)} with the gas at {t(T_ok)}.",
-        )
-    ]
+    data |= {
+        "lowered_mass_kg": m_ok,
+        "lowered_end_pressure_Pa": P_ok,
+        "lowered_peak_temperature_K": T_ok,
+    }
+    return [Finding("fill-plan-hot", "warning", "", data)]

@@ -16,7 +16,6 @@ from typing import TYPE_CHECKING
 
 import numpy as np
 
-from fillcheck import units
 from fillcheck.assess.result import Finding
 
 if TYPE_CHECKING:
@@ -59,50 +58,32 @@ def dropout_at_coldest(f: MixtureFluid, path: MixtureVesselPath, rows: slice) ->
     )
 
 
-def _composition(c: dict[str, float]) -> str:
-    return " + ".join(f"{name} {100.0 * v:.3g} %" for name, v in c.items())
-
-
 def mixture_findings(
     f: MixtureFluid,
     dropout: Dropout | None,
     notes: tuple[str, ...],
-    system: units.UnitSystem,
     liquefied: bool | None = None,
 ) -> list[Finding]:
-    """The findings a mixture adds to those of every vessel."""
+    """The findings a mixture adds to those of every vessel, as data (report.finding_words)."""
     out: list[Finding] = []
     if f.model != "reference" and f.kij_missing:
         out.append(
             Finding(
                 "interaction-unknown",
                 "review",
-                f"no published binary interaction parameter for {', '.join(f.kij_missing)}: "
-                f"the {f.model} model used kij = 0 there, and the phase behaviour and density "
-                "of the mixture are estimates",
+                "",
+                {"pairs": tuple(f.kij_missing), "model": f.model},
             )
         )
     if dropout is not None:
-        t = units.format_temperature(dropout.temperature_K, system)
-        if liquefied:
-            lightest = max(
-                dropout.vapour_y, key=lambda k: dropout.vapour_y[k] / dropout.liquid_x[k]
-            )
-            said = (
-                f"this liquefied mixture is two-phase by design; at {t} the vapour drawn off "
-                f"is {_composition(dropout.vapour_y)}, richer in {lightest} than the liquid "
-                f"({_composition(dropout.liquid_x)}), and as vapour is drawn the liquid left "
-                f"grows richer in {dropout.condensing}: a vapour-draw appliance receives a "
-                "changing composition"
-            )
-        else:
-            said = (
-                f"at {t} the mixture splits: a liquid rich in {dropout.condensing} takes "
-                f"{units.format_share(dropout.liquid_volume_fraction)} of the vessel (liquid "
-                f"{_composition(dropout.liquid_x)}), and the gas drawn off is "
-                f"{_composition(dropout.vapour_y)}, not the composition on the label; warm "
-                "the vessel and roll or wait before use so the liquid re-mixes"
-            )
-        out.append(Finding("liquid-dropout", "warning", said))
+        data = {
+            "temperature_K": dropout.temperature_K,
+            "liquid_x": dict(dropout.liquid_x),
+            "vapour_y": dict(dropout.vapour_y),
+            "liquid_volume_fraction": dropout.liquid_volume_fraction,
+            "condensing": dropout.condensing,
+            "liquefied": bool(liquefied),
+        }
+        out.append(Finding("liquid-dropout", "warning", "", data))
     out.extend(Finding("composition-note", "info", n) for n in notes)
     return out

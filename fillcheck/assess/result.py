@@ -9,6 +9,7 @@ import numpy as np
 
 if TYPE_CHECKING:
     from fillcheck.assess.cautions import Caution
+    from fillcheck.thermo.fluid import Validity
 
 Severity = Literal["fail", "review", "warning", "info"]
 Verdict = Literal["pass", "fail", "review"]
@@ -33,7 +34,21 @@ class Finding:
     code: str
     severity: Severity
     message: str
-    data: dict[str, float | str | None] | None = field(default=None, compare=False, hash=False)
+    data: dict[str, Any] | None = field(default=None, compare=False, hash=False)
+
+
+@dataclass(frozen=True)
+class Checked:
+    """One limit a verdict covers, as data (report.finding_words names it).
+
+    kind: "allowable", "relief", "filling-ratio", "vapour-space", "not-liquid-full", "rule"
+    (``text`` holds the rule) or "peak-fill-temperature"; value: the limit in SI (Pa, kg/m³,
+    a fraction, K) or None; temperature_K: where it applies [K] or None."""
+
+    kind: str
+    value: float | None = None
+    temperature_K: float | None = None
+    text: str | None = None
 
 
 def pressure_margin(limit_Pa: float, highest_Pa: float, atmospheric_pressure_Pa: float) -> float:
@@ -78,7 +93,7 @@ class VesselAssessment:
     model: str
     model_name: str
     model_references: tuple[str, ...]
-    model_validity: str
+    model_validity: Validity
     data_sources: dict[str, str]
     count: int
     water_capacity_m3: float
@@ -103,7 +118,7 @@ class VesselAssessment:
     max_safe_fill_pressure_Pa: float | None
     governing_limit: str | None
     entered: dict[str, str]
-    limits_checked: list[str]
+    limits_checked: list[Checked]
     hazards: tuple[str, ...]
     pressure_uncertainty_at_top: float | None = None
     """The model's relative pressure uncertainty at the highest-pressure state [-]."""

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-from fillcheck import units
 from fillcheck.assess.batch import assess_many, fill_densities
 from fillcheck.assess.result import VesselAssessment
 from fillcheck.scenario.resolve import VesselInput
@@ -13,8 +12,6 @@ def fill_density_mol(v: VesselInput, T_ref: float) -> float:
     return float(fill_densities([v], T_ref)[0])
 
 
-def assess_vessel(
-    v: VesselInput, T_ref: float, system: units.UnitSystem = "metric"
-) -> VesselAssessment:
+def assess_vessel(v: VesselInput, T_ref: float) -> VesselAssessment:
     """Assess one vessel against its limits over its storage range."""
-    return assess_many([v], T_ref, system)[0]
+    return assess_many([v], T_ref)[0]

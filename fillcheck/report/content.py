@@ -12,6 +12,7 @@ from fillcheck import units
 from fillcheck.assess.result import Finding, VesselAssessment
 from fillcheck.assess.rules import RULES_PUBLICATION, VERIFY_EDITION
 from fillcheck.fluids.citation import citation
+from fillcheck.report.finding_words import validity_text
 from fillcheck.report.wording import limits_checked
 
 ENTERED_LABELS = {
@@ -74,7 +75,7 @@ def publication(source: str) -> str:
     return citation(source)
 
 
-def entered_rows(v: VesselAssessment) -> list[tuple[str, str]]:
+def entered_rows(v: VesselAssessment, system: units.UnitSystem = "metric") -> list[tuple[str, str]]:
     """The user's inputs in their own units, then the model and its sources."""
     rows = [
         (label, units.respell(v.entered[key]))
@@ -84,7 +85,7 @@ def entered_rows(v: VesselAssessment) -> list[tuple[str, str]]:
     if v.composition is not None:
         rows.insert(0, ("composition (mole)", v.gas.removesuffix(" (mol)")))
     rows.append(("model", f"{v.model_name} ({v.model}); {'; '.join(v.model_references)}"))
-    rows.append(("model range", v.model_validity))
+    rows.append(("model range", validity_text(v.model_validity, system)))
     rows.append(("gas data", publication(v.data_sources.get("critical", "—"))))
     return rows
 

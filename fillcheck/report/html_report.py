@@ -89,7 +89,7 @@ def _vessel(v: VesselAssessment, fmt: Formatter) -> str:
     return (
         f'<section class="vessel"><h2>Vessel {_e(v.id)} — {_e(v.gas)}{_e(count)} '
         f'<span class="verdict {v.verdict}">{VERDICT_WORD[v.verdict]}</span></h2>'
-        f"<h3>Inputs and model</h3>{_table(entered_rows(v))}"
+        f"<h3>Inputs and model</h3>{_table(entered_rows(v, fmt.system))}"
         f"<h3>Results</h3>{_table(result_rows(v, fmt), numeric=True)}"
         + (
             f"<h3>Fill process</h3>{_table(filling_rows(v, fmt), numeric=True)}"

@@ -12,6 +12,7 @@ from fillcheck.report.caution_text import caution_reason, caution_text
 from fillcheck.report.fill_section import filling_dict
 from fillcheck.report.permit_record import Record, record_json
 from fillcheck.report.wording import finding_message, limits_checked
+from fillcheck.units import UnitSystem
 
 
 def _end(e: EndState) -> dict[str, Any]:
@@ -28,15 +29,18 @@ def _finite(x: float) -> float | None:
     return x if math.isfinite(x) else None
 
 
-def _finding(f: Finding, atm: float) -> dict[str, Any]:
+def _finding(f: Finding, atm: float, system: UnitSystem) -> dict[str, Any]:
     """A finding: code, severity, message, and its SI quantities where it is given as data."""
     out: dict[str, Any] = {
         "code": f.code,
         "severity": f.severity,
-        "message": finding_message(f, "metric", atm),
+        "message": finding_message(f, system, atm),
     }
-    if f.data is not None:
-        out["data"] = dict(f.data)
+    if f.data is not None:  # JSON has no NaN or infinity: null there
+        out["data"] = {
+            k: None if isinstance(x, float) and not math.isfinite(x) else x
+            for k, x in f.data.items()
+        }
     return out
 
 
@@ -63,8 +67,11 @@ def _marking(v: VesselAssessment) -> dict[str, Any]:
     }
 
 
-def vessel_dict(v: VesselAssessment, atm: float = 101325.0) -> dict[str, Any]:
-    """One vessel as the JSON contract lays it out (plus documented extensions)."""
+def vessel_dict(
+    v: VesselAssessment, atm: float = 101325.0, system: UnitSystem = "metric"
+) -> dict[str, Any]:
+    """One vessel as the JSON contract lays it out (plus documented extensions); the numbers
+    in SI, the sentences (findings' messages) in ``system``."""
     return {
         "id": v.id,
         "gas": v.gas,
@@ -99,8 +106,8 @@ def vessel_dict(v: VesselAssessment, atm: float = 101325.0) -> dict[str, Any]:
             "margin_to_allowable_gauge": _finite(v.margin_to_allowable),
             "liquid_fraction_at_vapour_space_temperature": v.liquid_fraction_at_vapour_space_T,
         },
-        "limits_checked": limits_checked(v, "metric", atm),
-        "findings": [_finding(f, atm) for f in v.findings],
+        "limits_checked": limits_checked(v, system, v.atmospheric_pressure_Pa),
+        "findings": [_finding(f, v.atmospheric_pressure_Pa, system) for f in v.findings],
         "cautions": [caution_text(c) for c in v.cautions],
         "caution_details": [
             {"code": c.code, "text": caution_text(c), "reason": caution_reason(c)}
@@ -121,7 +128,9 @@ def vessel_dict(v: VesselAssessment, atm: float = 101325.0) -> dict[str, Any]:
     }
 
 
-def scenario_dict(a: ScenarioAssessment, record: Record | None = None) -> dict[str, Any]:
+def scenario_dict(
+    a: ScenarioAssessment, record: Record | None = None, system: UnitSystem = "metric"
+) -> dict[str, Any]:
     """The whole result (with the permit-file record's keys where given, INTERFACES.md §5)."""
     return {
         "fillcheck_version": __version__,
@@ -131,10 +140,12 @@ def scenario_dict(a: ScenarioAssessment, record: Record | None = None) -> dict[s
         "verdict": a.verdict,
         "reference_temperature_K": a.reference_temperature_K,
         "atmospheric_pressure_Pa": a.atmospheric_pressure_Pa,
-        "vessels": [vessel_dict(v, a.atmospheric_pressure_Pa) for v in a.vessels],
+        "vessels": [vessel_dict(v, a.atmospheric_pressure_Pa, system) for v in a.vessels],
     }
 
 
-def render_json(a: ScenarioAssessment, record: Record | None = None) -> str:
-    """The JSON text (indented, UTF-8 characters kept)."""
-    return json.dumps(scenario_dict(a, record), indent=2, ensure_ascii=False)
+def render_json(
+    a: ScenarioAssessment, record: Record | None = None, system: UnitSystem = "metric"
+) -> str:
+    """The JSON text (indented, UTF-8 characters kept; sentences in ``system``)."""
+    return json.dumps(scenario_dict(a, record, system), indent=2, ensure_ascii=False)

@@ -77,7 +77,7 @@ def _vessel_block(v: VesselAssessment, fmt: Formatter) -> Group:
     entered = Table.grid(padding=(0, 2))
     entered.add_column(style="dim")
     entered.add_column()
-    for row in entered_rows(v):
+    for row in entered_rows(v, fmt.system):
         entered.add_row(*row)
     res = Table(title="Results", title_justify="left", show_edge=False, expand=False)
     res.add_column("quantity")

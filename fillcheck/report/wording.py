@@ -11,6 +11,8 @@ from collections.abc import Callable
 from fillcheck import units
 from fillcheck.assess.markings import RATED_TOLERANCE
 from fillcheck.assess.result import Finding, VesselAssessment
+from fillcheck.report.fill_words import FILL_WORDS
+from fillcheck.report.finding_words import WORDS, Words, checked_text
 
 
 def _p(system: units.UnitSystem, atm: float) -> Callable[[float], str]:
@@ -40,6 +42,9 @@ def finding_message(f: Finding, system: units.UnitSystem = "metric", atm: float 
     if f.message or f.data is None:
         return f.message
     d = f.data
+    words = WORDS.get(f.code) or FILL_WORDS.get(f.code)
+    if words is not None:
+        return words(d, Words(system, atm))
     p = _p(system, atm)
 
     def t(x: float) -> str:
@@ -99,4 +104,5 @@ def marking_limits_checked(v: VesselAssessment, system: units.UnitSystem, atm: f
 
 def limits_checked(v: VesselAssessment, system: units.UnitSystem, atm: float) -> list[str]:
     """Every limit the verdict of ``v`` covers, in words."""
-    return list(v.limits_checked) + marking_limits_checked(v, system, atm)
+    w = Words(system, atm)
+    return [checked_text(c, w) for c in v.limits_checked] + marking_limits_checked(v, system, atm)
