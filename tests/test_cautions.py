@@ -272,3 +272,31 @@ def test_json_caution_details(tmp_path: Path) -> None:
     assert "carbon-dioxide" in codes and "heavier-than-air" in codes
     assert v["cautions"] == [d["text"] for d in v["caution_details"]]
     assert all(d["reason"] for d in v["caution_details"])
+
+
+def test_every_flammable_catalog_gas_has_a_limit_for_the_flammability_index() -> None:
+    """ISO 10156's index needs each flammable component's Tci or its lower flammable limit; a
+    flammable catalog gas without either would make every mixture holding it count as
+    flammable whatever its share (the conservative fallback), so the catalog must give one."""
+    from fillcheck import available_fluids
+    from fillcheck.fluids.catalog import lookup
+    from fillcheck.fluids.classification import LFL, TCI
+
+    missing = [
+        n
+        for n in available_fluids()
+        if "flammable" in lookup(n).hazards and not (TCI.get(n) or LFL.get(n))
+    ]
+    assert missing == []
+
+
+def test_an_unlisted_flammable_component_counts_as_flammable() -> None:
+    """The fallback itself: no Tci and no LFL gives an infinite index (flammable)."""
+    import numpy as np
+
+    from fillcheck.fluids.classification import flammability_index
+
+    got = flammability_index(
+        ["unlisted-fuel", "nitrogen"], np.array([1e-4, 1 - 1e-4]), [True, False], [False, True]
+    )
+    assert got == float("inf")

@@ -11,6 +11,7 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass, field
+from typing import Any
 
 from fillcheck.fluids.catalog import lookup
 from fillcheck.fluids.classification import CI, OXIDIZING_THRESHOLD, OXYGEN_DEFICIENT, TRACE
@@ -33,7 +34,7 @@ class Caution:
     """One caution: a stable code and the facts it was attached for (SI, fractions [-])."""
 
     code: str
-    facts: dict[str, float | str] = field(default_factory=dict)
+    facts: dict[str, Any] = field(default_factory=dict)
 
 
 @dataclass(frozen=True)
@@ -92,8 +93,9 @@ def gas_facts(fluid: object) -> GasFacts:
     )
 
 
-def _listing(parts: Sequence[tuple[str, float]]) -> str:
-    return ", ".join(f"{n} {x:.3g}" for n, x in parts)
+def _listing(parts: Sequence[tuple[str, float]]) -> dict[str, float]:
+    """Components and their mole fractions [-], as data (report.caution_text words them)."""
+    return {n: float(x) for n, x in parts}
 
 
 def _hazard_cautions(g: GasFacts) -> list[Caution]:
@@ -103,11 +105,11 @@ def _hazard_cautions(g: GasFacts) -> list[Caution]:
         service = [n for n in OXYGEN_SERVICE_GASES if g.fraction(n) >= TRACE]
         basis = {"oxidizing_power": g.oxidizing_power, "threshold": OXIDIZING_THRESHOLD}
         if service:
-            out.append(Caution("oxygen-service", {"gases": ", ".join(sorted(service)), **basis}))
+            out.append(Caution("oxygen-service", {"gases": tuple(sorted(service)), **basis}))
         else:
             out.append(Caution("oxidizer", basis))
     if "flammable" in hz:
-        facts: dict[str, float | str] = {}
+        facts: dict[str, Any] = {}
         if g.is_mixture:
             facts = {"components": _listing(g.holding("flammable")), "blend": g.blend}
             facts["index"] = g.flammability_index

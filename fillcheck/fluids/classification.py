@@ -27,6 +27,7 @@ smallest Kₖ of the table.
 
 from __future__ import annotations
 
+import math
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
@@ -162,11 +163,15 @@ def flammability_index(
     if A == 0.0:
         return 0.0
     B = sum(KK.get(n, KK_UNLISTED) * float(x) for n, x, i in zip(names, z, inert, strict=True) if i)
-    return sum(
-        float(x) / (A + B) / TCI.get(n, LFL.get(n, 0.0) or 1e-9)
-        for n, x, f in zip(names, z, flammable, strict=True)
-        if f
-    )
+    total = 0.0
+    for n, x, f in zip(names, z, flammable, strict=True):
+        if not f:
+            continue
+        limit = TCI.get(n) or LFL.get(n)
+        if not limit:  # no published figure: counted flammable at any share (conservative)
+            return math.inf
+        total += float(x) / (A + B) / limit
+    return total
 
 
 def classify(

@@ -7,7 +7,7 @@ fillcheck's own. They never replace the gas supplier's safety data sheet.
 from __future__ import annotations
 
 import math
-from collections.abc import Callable
+from collections.abc import Callable, Mapping
 
 from fillcheck.assess.cautions import Caution
 
@@ -95,19 +95,15 @@ def _oxidizing(f: dict[str, float | str]) -> str:
 def _classed(what: str) -> Callable[[dict[str, float | str]], str]:
     def reason(f: dict[str, float | str]) -> str:
         if f.get("components"):
-            return f"it holds {_mole(str(f['components']))}, classified {what}"
+            return f"it holds {_mole(f['components'])}, classified {what}"
         return f"{what} by {GHS}"
 
     return reason
 
 
-def _mole(listing: str) -> str:
-    """'hydrogen 0.05, argon 0.95' (mole fractions) as 'hydrogen 5 %, argon 95 % (mol)'."""
-    parts = []
-    for item in listing.split(", "):
-        name, _, x = item.rpartition(" ")
-        parts.append(f"{name} {_pct(x)}")
-    return ", ".join(parts) + " (mol)"
+def _mole(parts: Mapping[str, float]) -> str:
+    """{'hydrogen': 0.05, 'argon': 0.95} (mole fractions) as 'hydrogen 5 %, argon 95 % (mol)'."""
+    return ", ".join(f"{name} {_pct(x)}" for name, x in parts.items()) + " (mol)"
 
 
 def _flammable(f: dict[str, float | str]) -> str:
@@ -117,7 +113,7 @@ def _flammable(f: dict[str, float | str]) -> str:
         )
     if "index" in f and math.isfinite(float(f["index"])):
         return (
-            f"it holds {_mole(str(f['components']))}; by {ISO_10156}'s method for gas mixtures "
+            f"it holds {_mole(f['components'])}; by {ISO_10156}'s method for gas mixtures "
             f"its flammability index is {float(f['index']):.2f}, above 1: flammable in air"
         )
     return f"flammable by {GHS}"
@@ -144,7 +140,7 @@ REASON: dict[str, Callable[[dict[str, float | str]], str]] = {
         "(US OSHA, 29 CFR 1910.134)"
     ),
     "flammable-with-oxidizer": lambda f: (
-        f"it holds {_mole(str(f['flammable']))} with {_mole(str(f['oxidizers']))}"
+        f"it holds {_mole(f['flammable'])} with {_mole(f['oxidizers'])}"
     ),
     "heavier-than-air": lambda f: (
         f"molar mass {1000.0 * float(f['molar_mass']):.1f} g/mol against air's "
