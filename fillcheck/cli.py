@@ -112,6 +112,16 @@ def check(
             "no report, memory bounded for any register.",
         ),
     ] = None,
+    jobs: Annotated[
+        int,
+        typer.Option(
+            "--jobs",
+            min=1,
+            max=64,
+            help="With --jsonl and a register: check it in this many worker processes "
+            "(same results, in the register's order).",
+        ),
+    ] = 1,
 ) -> None:
     """Check every vessel of a scenario and print the report.
 
@@ -128,7 +138,9 @@ def check(
     if jsonl_out is not None:
         if json_out or html_out is not None:
             _refuse("give --jsonl alone: it replaces the report, --json and --html")
-        _check_jsonl(file, jsonl_out, force, units)
+        _check_jsonl(file, jsonl_out, force, units, jobs)
+    if jobs != 1:
+        _refuse("--jobs applies to --jsonl only; add --jsonl OUT, or leave --jobs out")
     if html_out is not None:
         from fillcheck.report.html_report import destination_problem
 
@@ -170,7 +182,7 @@ def check(
     raise typer.Exit(EXIT_PASS if result.verdict == "pass" else EXIT_FINDINGS)
 
 
-def _check_jsonl(file: Path, out: str, force: bool, units: Units | None) -> None:
+def _check_jsonl(file: Path, out: str, force: bool, units: Units | None, jobs: int = 1) -> None:
     """``check --jsonl``: stream one JSON line a vessel to ``out`` ('-' for stdout), written to
     a temporary file and renamed when complete (a refused or failed run leaves nothing)."""
     import json
@@ -178,6 +190,8 @@ def _check_jsonl(file: Path, out: str, force: bool, units: Units | None) -> None
 
     from fillcheck.records import stream_register
 
+    if jobs != 1 and file.suffix.lower() != ".csv":
+        _refuse("--jobs applies to registers (.csv); a scenario file is checked in one process")
     to_stdout = out == "-"
     if not to_stdout:
         from fillcheck.report.html_report import destination_problem
@@ -199,7 +213,7 @@ def _check_jsonl(file: Path, out: str, force: bool, units: Units | None) -> None
                 from fillcheck.scenario.register import read_rows
 
                 system = units.value if units is not None else "metric"
-                results = stream_register(read_rows(file), file.name, system)  # type: ignore[arg-type]
+                results = stream_register(read_rows(file), file.name, system, jobs)  # type: ignore[arg-type]
             else:
                 from fillcheck.assess.batch import assess_many
                 from fillcheck.report.json_report import vessel_dict

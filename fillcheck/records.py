@@ -37,23 +37,26 @@ def check_records(
     source: str = "records",
     system: UnitSystem = "metric",
     chunk_rows: int = CHUNK_ROWS,
+    jobs: int = 1,
 ) -> Iterator[dict[str, Any]]:
     """Check vessels given as mappings of register columns; yield one result mapping each.
 
     Values are register cells: quantity strings with units (``"50 L"``, ``"200 barg"``); None,
     NaN and empty strings are absent values. Refused input raises InputError naming the record
     (as "row n", the n-th record), the vessel and the column, like a register's message.
-    Results come in the order of the records, a chunk at a time."""
+    Results come in the order of the records, a chunk at a time; ``jobs`` > 1 checks chunks in
+    that many worker processes (the results and refusals are the same as with one)."""
     yield from _stream(
         ((n, {str(k): _cell(v) for k, v in rec.items()}) for n, rec in enumerate(records, 1)),
         source,
         system,
         chunk_rows,
+        jobs,
     )
 
 
 def stream_register(
-    rows: list[list[str]], name: str, system: UnitSystem = "metric"
+    rows: list[list[str]], name: str, system: UnitSystem = "metric", jobs: int = 1
 ) -> Iterator[dict[str, Any]]:
     """The vessels of a register's rows (header first, cells stripped), a chunk at a time."""
     from fillcheck.scenario.register import check_columns, checked_rows
@@ -68,38 +71,22 @@ def stream_register(
     records = (
         (n, dict(zip(header, row, strict=True))) for n, row in checked_rows(header, rows[1:], name)
     )
-    yield from _stream(records, name, system, CHUNK_ROWS)
+    yield from _stream(records, name, system, CHUNK_ROWS, jobs)
 
 
-def _stream(
-    numbered: Iterable[tuple[int, dict[str, str]]],
-    name: str,
-    system: UnitSystem,
-    chunk_rows: int,
-) -> Iterator[dict[str, Any]]:
-    from fillcheck.assess.batch import assess_many
-    from fillcheck.report.json_report import vessel_dict
-    from fillcheck.scenario.register import COLUMNS, FIELDS, row_vessel
-    from fillcheck.scenario.resolve import scenario_from_dict
+Chunk = tuple[int, list[dict[str, object]]]
+"""The row number of a chunk's first vessel and its vessels as ``[[vessel]]`` tables."""
+
+
+def _chunks(
+    numbered: Iterable[tuple[int, dict[str, str]]], name: str, chunk_rows: int
+) -> Iterator[Chunk]:
+    """Group numbered records into chunks of vessel tables, refusing an unknown column."""
+    from fillcheck.scenario.register import COLUMNS, row_vessel
     from fillcheck.scenario.text import neutralise
 
-    seen: set[str] = set()
     chunk: list[dict[str, object]] = []
     first = 0
-
-    def flush() -> Iterator[dict[str, Any]]:
-        sc = scenario_from_dict({"vessel": chunk}, name, FIELDS, first_row=first)
-        for i, v in enumerate(sc.vessels):
-            if v.id in seen:
-                row = first + i
-                raise InputError(
-                    f"{name}: row {row} (vessel '{v.id}'), column 'id': the id is used twice; "
-                    "give every vessel its own id"
-                )
-            seen.add(v.id)
-        for a in assess_many(sc.vessels, sc.reference_temperature_K):
-            yield vessel_dict(a, sc.atmospheric_pressure_Pa, system)
-
     for n, record in numbered:
         unknown = [k for k in record if k not in COLUMNS]
         if unknown:
@@ -113,9 +100,73 @@ def _stream(
         cells = [neutralise(record[k]) for k in header]
         chunk.append(row_vessel(header, cells, name, n))
         if len(chunk) >= chunk_rows:
-            yield from flush()
+            yield first, chunk
             chunk = []
     if chunk:
-        yield from flush()
-    elif not seen:
+        yield first, chunk
+
+
+def checked_chunk(chunk: Chunk, name: str, system: UnitSystem) -> list[dict[str, Any]]:
+    """Validate and assess one chunk; the JSON vessel object of each of its vessels (a
+    worker process's whole task with ``jobs`` > 1, so it is a module-level function)."""
+    from fillcheck.assess.batch import assess_many
+    from fillcheck.report.json_report import vessel_dict
+    from fillcheck.scenario.register import FIELDS
+    from fillcheck.scenario.resolve import scenario_from_dict
+
+    first, vessels = chunk
+    sc = scenario_from_dict({"vessel": vessels}, name, FIELDS, first_row=first)
+    return [
+        vessel_dict(a, sc.atmospheric_pressure_Pa, system)
+        for a in assess_many(sc.vessels, sc.reference_temperature_K)
+    ]
+
+
+def _stream(
+    numbered: Iterable[tuple[int, dict[str, str]]],
+    name: str,
+    system: UnitSystem,
+    chunk_rows: int,
+    jobs: int = 1,
+) -> Iterator[dict[str, Any]]:
+    seen: set[str] = set()
+    for first, results in _checked_chunks(_chunks(numbered, name, chunk_rows), name, system, jobs):
+        for i, result in enumerate(results):
+            vid = str(result["id"])
+            if vid in seen:
+                raise InputError(
+                    f"{name}: row {first + i} (vessel '{vid}'), column 'id': the id is used "
+                    "twice; give every vessel its own id"
+                )
+            seen.add(vid)
+            yield result
+    if not seen:
         raise InputError(f"{name}: holds no vessels; give at least one")
+
+
+def _checked_chunks(
+    chunks: Iterator[Chunk], name: str, system: UnitSystem, jobs: int
+) -> Iterator[tuple[int, list[dict[str, Any]]]]:
+    """(first row, results) of each chunk in order: here, or in ``jobs`` worker processes with
+    at most two chunks a worker in flight (memory stays bounded by the chunks in flight)."""
+    if jobs <= 1:
+        for chunk in chunks:
+            yield chunk[0], checked_chunk(chunk, name, system)
+        return
+    from collections import deque
+    from concurrent.futures import ProcessPoolExecutor
+
+    pool = ProcessPoolExecutor(max_workers=jobs)
+    try:
+        pending: deque[tuple[int, Any]] = deque()
+        for chunk in chunks:
+            pending.append((chunk[0], pool.submit(checked_chunk, chunk, name, system)))
+            while len(pending) >= 2 * jobs:
+                first, fut = pending.popleft()
+                yield first, fut.result()
+        while pending:
+            first, fut = pending.popleft()
+            yield first, fut.result()
+    finally:
+        # a refusal or an abandoned stream does not wait for the chunks still queued
+        pool.shutdown(wait=True, cancel_futures=True)

@@ -154,3 +154,46 @@ def test_a_model_whose_saturation_stops_short_of_tc_still_gives_crossings() -> N
     for i in np.flatnonzero(resolved)[::10]:
         ref = CP.PropsSI("D", "T", T[i], "Q", 0 if full[i] else 1, "R22") / f.molar_mass
         assert ref == pytest.approx(rho[i], rel=1e-6)
+
+
+def test_jobs_give_the_results_and_refusals_of_one_process() -> None:
+    # several worker processes: the same vessels in the same order, value for value, and the
+    # same refusal (a later chunk's id repeating an earlier chunk's) as one process gives
+    rows = [_row(i, 150 + 3 * i) for i in range(23)]
+    one = list(fillcheck.check_records(rows, chunk_rows=5))
+    two = list(fillcheck.check_records(rows, chunk_rows=5, jobs=2))
+    _same(one, two)
+    twice = [*rows, _row(3, 180)]
+    for jobs in (1, 2):
+        with pytest.raises(InputError, match=r"row 24 \(vessel 'N2-00003'\), column 'id'"):
+            list(fillcheck.check_records(twice, chunk_rows=5, jobs=jobs))
+    bad = [*rows[:12], {**_row(12, 200), "fill_pressure": "200"}, *rows[13:]]
+    with pytest.raises(InputError, match=r"row 13 \(vessel 'N2-00012'\), column 'fill_pressure'"):
+        list(fillcheck.check_records(bad, chunk_rows=5, jobs=2))
+
+
+def test_jobs_option_through_the_command_line(tmp_path: Path) -> None:
+    reg = tmp_path / "fleet.csv"
+    head = "id,gas,water_capacity,fill_pressure,fill_temperature,max_temperature,allowable_pressure"
+    lines = [head] + [
+        f"AR-{i},argon,50 L,{150 + i % 150} barg,15 degC,65 degC,300 barg" for i in range(2500)
+    ]
+    reg.write_text("\n".join(lines) + "\n", encoding="utf-8")
+    one = _cli("check", str(reg), "--jsonl", "-", cwd=tmp_path)
+    two = _cli("check", str(reg), "--jsonl", "-", "--jobs", "2", cwd=tmp_path)
+    assert one.returncode == two.returncode == 1, two.stderr
+    _same(
+        [json.loads(x) for x in one.stdout.splitlines()],
+        [json.loads(x) for x in two.stdout.splitlines()],
+    )
+    alone = _cli("check", str(reg), "--jobs", "2", cwd=tmp_path)
+    assert alone.returncode == 2 and "--jobs applies to --jsonl" in alone.stderr
+    toml = tmp_path / "one.toml"
+    toml.write_text(
+        '[[vessel]]\nid = "A"\ngas = "argon"\nwater_capacity = "50 L"\n'
+        'fill = { pressure = "200 barg", temperature = "15 degC" }\n'
+        'storage = { max_temperature = "65 degC" }\nlimits = { allowable_pressure = "300 barg" }\n',
+        encoding="utf-8",
+    )
+    r = _cli("check", str(toml), "--jsonl", "-", "--jobs", "2", cwd=tmp_path)
+    assert r.returncode == 2 and "registers (.csv)" in r.stderr and r.stdout == ""

@@ -239,6 +239,13 @@ def preferred_units(vessels: Any, raw: dict[str, Any]) -> str:
     return "us" if us else "metric"
 
 
+_PARSED: dict[tuple[Any, str, tuple[Any, ...]], float] = {}
+"""Quantity texts already parsed, by parser, text and arguments: a register's repeated cells
+('50 L', '65 degC') are parsed once. Only successes are kept; a refusal is raised each time with
+its own row and column."""
+_PARSED_MAX = 1 << 16
+
+
 class _Where:
     """Prefixes messages with file, vessel and field (or, for a register, row and column)."""
 
@@ -263,10 +270,16 @@ class _Where:
         return InputError(f"{self.file}: {at}field '{field}': {what}")
 
     def run(self, field: str, parse: Any, text: Any, *args: Any) -> float:
+        key = (parse, text, args) if isinstance(text, str) else None
+        if key is not None and (hit := _PARSED.get(key)) is not None:
+            return hit
         try:
-            return float(parse(text, *args))
+            value = float(parse(text, *args))
         except InputError as exc:
             raise self.fail(field, str(exc)) from None
+        if key is not None and len(_PARSED) < _PARSED_MAX:
+            _PARSED[key] = value
+        return value
 
     def pressure(self, field: str, text: str, P_atm: float = units.STANDARD_ATMOSPHERE_Pa) -> float:
         """A pressure [Pa absolute], refused above the plausibility bound."""
