@@ -17,6 +17,7 @@ import numpy as np
 from fillcheck.errors import FillcheckError, InputError, StateError
 from fillcheck.fluids.accuracy import REFERENCE_UNCERTAINTY, GasAccuracy, ModelError, accuracy_for
 from fillcheck.fluids.catalog import FluidData, lookup
+from fillcheck.fluids.superancillary import Superancillary, load_superancillary
 from fillcheck.models.base import FloatArray
 from fillcheck.models.idealgas import IdealGasMixture
 from fillcheck.models.multiparameter import (
@@ -37,6 +38,10 @@ from fillcheck.thermo.vessel import vessel_path
 
 SATURATION_GAPS_K = (2e-5, 1e-4, 1e-3, 1e-2)
 """Trial distances below Tc for Fluid.saturation_gap_K, smallest first [K]."""
+
+SCALAR_SATURATION_SIZE = 8
+"""Saturation expansions for at most this many temperatures are evaluated one by one in plain
+Python (faster than numpy's per-call overhead for so few)."""
 
 NEAR_CRITICAL_SPAN_K = 1.0
 """Below Tc by less than this, reference saturation starts from critical scaling [K]."""
@@ -153,6 +158,15 @@ class Fluid:
             if self.is_reference
             else data.triple_point_temperature_K
         )
+        self.superancillary: Superancillary | None = (
+            load_superancillary(
+                self.name, self.eos.fingerprint, self.model_critical[0], self.T_min_saturation
+            )
+            if self.is_reference
+            else None
+        )
+        """The saturation expansions fitted to this equation (fluids/superancillary.py), or None
+        where none is shipped or the shipped file is stale (then the solver is used)."""
         self.accuracy: GasAccuracy | None = (
             accuracy_for(data.name) if not data.user_defined else None
         )
@@ -223,18 +237,60 @@ class Fluid:
         return density_TP(self.eos, T, P)
 
     def saturation_molar(self, T: FloatArray) -> Saturation:
-        """Saturation in molar densities at T [K] (array)."""
+        """Saturation in molar densities at T [K] (array).
+
+        A reference equation with shipped expansions (``self.superancillary``) is evaluated from
+        them from its lowest saturation temperature up to their ``T_top``; above that, and for
+        every other model, the phase equilibrium is solved (:meth:`saturation_solved`).
+        """
+        T = np.atleast_1d(np.asarray(T, dtype=float))
+        sa = self.superancillary
+        if sa is None:
+            return self.saturation_solved(T)
+        self._check_saturation_range(T)
+        fast = sa.covers(T)
+        if np.all(fast):
+            if T.size <= SCALAR_SATURATION_SIZE:  # array machinery costs more than it saves
+                P, rl, rv = np.array([sa.evaluate_scalar(t) for t in T.ravel().tolist()]).T
+                P, rl, rv = P.reshape(T.shape), rl.reshape(T.shape), rv.reshape(T.shape)
+            else:
+                P, rl, rv = sa.evaluate(T)
+            return Saturation(T=T, P=P, rho_liquid=rl, rho_vapor=rv)
+        out_p, out_l, out_v = np.empty_like(T), np.empty_like(T), np.empty_like(T)
+        if np.any(fast):
+            out_p[fast], out_l[fast], out_v[fast] = sa.evaluate(T[fast])
+        # near Tc the solver runs once per distinct temperature (a register's vessels share them)
+        T_unique, back = np.unique(T[~fast], return_inverse=True)
+        s = self.saturation_solved(T_unique)
+        out_p[~fast], out_l[~fast], out_v[~fast] = s.P[back], s.rho_liquid[back], s.rho_vapor[back]
+        return Saturation(T=T, P=out_p, rho_liquid=out_l, rho_vapor=out_v)
+
+    def saturation_solved(self, T: FloatArray, *, to_round_off: bool = False) -> Saturation:
+        """Saturation at T [K] (array) by solving the phase equilibrium, never from expansions.
+
+        A reference equation is solved by Newton's method on the two densities (Akasaka's
+        form, thermo.helmholtz_solvers), started from its ancillary equations and, within
+        NEAR_CRITICAL_SPAN_K of Tc, by continuation from below; ``to_round_off`` iterates each
+        solution further, until Newton's corrections stop shrinking (what the superancillary
+        builder fits to). Other models: the bracketed Newton iteration in ln P
+        (thermo.saturation).
+        """
         Tc, Pc, rhoc = self.model_critical
         T = np.atleast_1d(np.asarray(T, dtype=float))
         if self.is_reference:
-            return self._reference_saturation(T)
+            s = self._reference_saturation(T)
+            if to_round_off:
+                s = saturation_newton(
+                    self.eos, T, s.rho_liquid, s.rho_vapor, self.eos.rho_r, step_tol=0.0
+                )
+            return s
         with np.errstate(divide="ignore"):
             guess = np.log(Pc) + 5.373 * (1.0 + self.data.acentric_factor) * (1.0 - Tc / T)
         return saturation_T(
             self.eos, T, Tc=Tc, Pc=Pc, rhoc=rhoc, T_min=self.T_min_saturation, ln_P_guess=guess
         )
 
-    def _reference_saturation(self, T: np.ndarray) -> Saturation:
+    def _check_saturation_range(self, T: np.ndarray) -> None:
         Tc = self.model_critical[0]
         T_min = self.T_min_saturation
         bad = (T >= Tc) | (T < T_min * (1 - 1e-12)) | ~np.isfinite(T)
@@ -243,6 +299,10 @@ class Fluid:
                 f"no saturation state at {T[bad][0]:.6g} K: saturation exists from the triple "
                 f"point {T_min:.6g} K up to the critical temperature {Tc:.6g} K"
             )
+
+    def _reference_saturation(self, T: np.ndarray) -> Saturation:
+        Tc = self.model_critical[0]
+        self._check_saturation_range(T)
         anc = self.eos.ancillaries
         rl = ancillary_value(anc["saturated_liquid_density"], T)
         rv = ancillary_value(anc["saturated_vapour_density"], T)
@@ -311,7 +371,19 @@ class Fluid:
         return s
 
     def saturation(self, T: FloatArray) -> SaturationState:
-        """Saturation pressure [Pa] and saturated densities [kg/m³] at T [K] below Tc."""
+        """Saturation pressure [Pa] and saturated densities [kg/m³] at T [K] below Tc.
+
+        One temperature (a Python or numpy float) that the fluid's saturation expansions cover
+        is evaluated in plain Python, without array machinery; anything else goes through
+        :meth:`saturation_molar`.
+        """
+        sa = self.superancillary
+        if sa is not None and isinstance(T, float | int) and not isinstance(T, bool):
+            t = float(T)
+            if sa.T_min * (1.0 - 1e-12) <= t <= sa.T_top:
+                P, rl, rv = sa.evaluate_scalar(t)
+                M = self.molar_mass
+                return SaturationState(T=t, P=P, rho_liquid=rl * M, rho_vapor=rv * M)
         T_arr = _positive(T, "T")
         sat = self.saturation_molar(np.ravel(T_arr))
         shape = np.shape(T_arr)
