@@ -240,8 +240,9 @@ class Fluid:
         """Saturation in molar densities at T [K] (array).
 
         A reference equation with shipped expansions (``self.superancillary``) is evaluated from
-        them from its lowest saturation temperature up to their ``T_top``; above that, and for
-        every other model, the phase equilibrium is solved (:meth:`saturation_solved`).
+        them from its lowest saturation temperature up to their ``T_top``; above that the phase
+        equilibrium is solved by continuation from their top, and for every other model by
+        :meth:`saturation_solved`.
         """
         T = np.atleast_1d(np.asarray(T, dtype=float))
         sa = self.superancillary
@@ -261,7 +262,7 @@ class Fluid:
             out_p[fast], out_l[fast], out_v[fast] = sa.evaluate(T[fast])
         # near Tc the solver runs once per distinct temperature (a register's vessels share them)
         T_unique, back = np.unique(T[~fast], return_inverse=True)
-        s = self.saturation_solved(T_unique)
+        s = self._above_expansions(T_unique)
         out_p[~fast], out_l[~fast], out_v[~fast] = s.P[back], s.rho_liquid[back], s.rho_vapor[back]
         return Saturation(T=T, P=out_p, rho_liquid=out_l, rho_vapor=out_v)
 
@@ -322,7 +323,8 @@ class Fluid:
         """How close below the critical temperature saturation converges for this model [K]:
         the first of SATURATION_GAPS_K at which it does (found once, then remembered). Closer
         than this the phase-equilibrium conditions are not resolved in double precision (most
-        reference equations converge at Tc − 10 µK; that of R22 only at Tc − 1 mK)."""
+        reference equations converge at Tc − 10 µK; that of R22 only at Tc − 1 mK). Judged by
+        the solver itself (:meth:`saturation_solved`), whatever start saturation_molar takes."""
         gap = getattr(self, "_saturation_gap", None)
         if gap is None:
             Tc = self.model_critical[0]
@@ -330,7 +332,7 @@ class Fluid:
             for trial in SATURATION_GAPS_K:
                 try:
                     with np.errstate(all="ignore"):  # a trial that fails may overflow on the way
-                        sat = self.saturation_molar(np.array([Tc - trial]))
+                        sat = self.saturation_solved(np.array([Tc - trial]))
                 except FillcheckError:
                     continue
                 if np.isfinite(sat.P[0]) and sat.rho_liquid[0] > sat.rho_vapor[0]:
@@ -339,24 +341,37 @@ class Fluid:
             self._saturation_gap = gap
         return gap
 
-    def _near_critical_saturation(self, T: np.ndarray) -> Saturation:
+    def _near_critical_saturation(
+        self, T: np.ndarray, start: tuple[float, Saturation] | None = None
+    ) -> Saturation:
         """Saturation close to Tc by continuation: from NEAR_CRITICAL_SPAN_K below Tc, steps
         that shrink the distance to Tc threefold, each started from the last solution scaled
         with the critical exponent β ≈ 0.325 of real fluids (Sengers, Levelt Sengers (1986),
         Annu. Rev. Phys. Chem. 37, 189), so every start lies outside the spinodals. All the
-        temperatures step together (vectorised)."""
+        temperatures step together (vectorised). ``start`` = (distance below Tc [K], the
+        saturation there, one value for all) begins the steps there instead."""
         Tc, _, rhoc = self.model_critical
-        anc = self.eos.ancillaries
         target = Tc - np.asarray(T, dtype=float)
-        dT = np.full(target.shape, NEAR_CRITICAL_SPAN_K)
-        T1 = Tc - dT
-        s = saturation_newton(
-            self.eos,
-            T1,
-            ancillary_value(anc["saturated_liquid_density"], T1),
-            ancillary_value(anc["saturated_vapour_density"], T1),
-            self.eos.rho_r,
-        )
+        if start is None:
+            anc = self.eos.ancillaries
+            dT = np.full(target.shape, NEAR_CRITICAL_SPAN_K)
+            T1 = Tc - dT
+            s = saturation_newton(
+                self.eos,
+                T1,
+                ancillary_value(anc["saturated_liquid_density"], T1),
+                ancillary_value(anc["saturated_vapour_density"], T1),
+                self.eos.rho_r,
+            )
+        else:
+            dT = np.full(target.shape, start[0])
+            one = start[1]
+            s = Saturation(
+                T=Tc - dT,
+                P=np.full(target.shape, one.P[0]),
+                rho_liquid=np.full(target.shape, one.rho_liquid[0]),
+                rho_vapor=np.full(target.shape, one.rho_vapor[0]),
+            )
         while np.any(dT > target):
             new = np.maximum(dT / 3.0, target)
             x = (new / dT) ** 0.325
@@ -369,6 +384,18 @@ class Fluid:
             )
             dT = new
         return s
+
+    def _above_expansions(self, T: np.ndarray) -> Saturation:
+        """Saturation between the top of the expansions and Tc: the continuation of
+        _near_critical_saturation, started from the expansions at their top (a start within
+        their ~1e-9 there, so two or three steps instead of eight)."""
+        sa = self.superancillary
+        assert sa is not None
+        Tc = self.model_critical[0]
+        T_top = np.array([sa.T_top])
+        P, rl, rv = sa.evaluate(T_top)
+        top = Saturation(T=T_top, P=P, rho_liquid=rl, rho_vapor=rv)
+        return self._near_critical_saturation(T, start=(Tc - sa.T_top, top))
 
     def saturation(self, T: FloatArray) -> SaturationState:
         """Saturation pressure [Pa] and saturated densities [kg/m³] at T [K] below Tc.
