@@ -32,6 +32,7 @@ from typing import Any
 
 import numpy as np
 
+from fillcheck.fluids.superancillary import equation_fingerprint
 from fillcheck.models.base import FloatArray, ModelInfo, ResidualDerivatives
 
 DATA_DIR = Path(__file__).resolve().parents[1] / "fluids" / "data" / "reference"
@@ -420,6 +421,8 @@ class MultiparameterModel:
         self.ideal = _IdealPart(spec.get("ideal", []), self.T_r, where)
         self.ancillaries = spec.get("ancillaries", {})
         self.pseudo_pure = bool(spec.get("pseudo_pure", False))
+        self.fingerprint = equation_fingerprint(spec)
+        """SHA-256 of the coefficients that fix the saturation curve (superancillary files)."""
 
     def alphar(self, T: FloatArray, rho_mol: FloatArray) -> ResidualDerivatives:
         """αʳ and its scaled derivatives at T [K] and molar density ρ [mol/m³].

@@ -17,6 +17,7 @@ import numpy as np
 from fillcheck.errors import FillcheckError, InputError, StateError
 from fillcheck.fluids.accuracy import REFERENCE_UNCERTAINTY, GasAccuracy, ModelError, accuracy_for
 from fillcheck.fluids.catalog import FluidData, lookup
+from fillcheck.fluids.superancillary import Superancillary, load_superancillary
 from fillcheck.models.base import FloatArray
 from fillcheck.models.idealgas import IdealGasMixture
 from fillcheck.models.multiparameter import (
@@ -37,6 +38,10 @@ from fillcheck.thermo.vessel import vessel_path
 
 SATURATION_GAPS_K = (2e-5, 1e-4, 1e-3, 1e-2)
 """Trial distances below Tc for Fluid.saturation_gap_K, smallest first [K]."""
+
+SCALAR_SATURATION_SIZE = 8
+"""Saturation expansions for at most this many temperatures are evaluated one by one in plain
+Python (faster than numpy's per-call overhead for so few)."""
 
 NEAR_CRITICAL_SPAN_K = 1.0
 """Below Tc by less than this, reference saturation starts from critical scaling [K]."""
@@ -153,6 +158,15 @@ class Fluid:
             if self.is_reference
             else data.triple_point_temperature_K
         )
+        self.superancillary: Superancillary | None = (
+            load_superancillary(
+                self.name, self.eos.fingerprint, self.model_critical[0], self.T_min_saturation
+            )
+            if self.is_reference
+            else None
+        )
+        """The saturation expansions fitted to this equation (fluids/superancillary.py), or None
+        where none is shipped or the shipped file is stale (then the solver is used)."""
         self.accuracy: GasAccuracy | None = (
             accuracy_for(data.name) if not data.user_defined else None
         )
@@ -223,18 +237,61 @@ class Fluid:
         return density_TP(self.eos, T, P)
 
     def saturation_molar(self, T: FloatArray) -> Saturation:
-        """Saturation in molar densities at T [K] (array)."""
+        """Saturation in molar densities at T [K] (array).
+
+        A reference equation with shipped expansions (``self.superancillary``) is evaluated from
+        them from its lowest saturation temperature up to their ``T_top``; above that the phase
+        equilibrium is solved by continuation from their top, and for every other model by
+        :meth:`saturation_solved`.
+        """
+        T = np.atleast_1d(np.asarray(T, dtype=float))
+        sa = self.superancillary
+        if sa is None:
+            return self.saturation_solved(T)
+        self._check_saturation_range(T)
+        fast = sa.covers(T)
+        if np.all(fast):
+            if T.size <= SCALAR_SATURATION_SIZE:  # array machinery costs more than it saves
+                P, rl, rv = np.array([sa.evaluate_scalar(t) for t in T.ravel().tolist()]).T
+                P, rl, rv = P.reshape(T.shape), rl.reshape(T.shape), rv.reshape(T.shape)
+            else:
+                P, rl, rv = sa.evaluate(T)
+            return Saturation(T=T, P=P, rho_liquid=rl, rho_vapor=rv)
+        out_p, out_l, out_v = np.empty_like(T), np.empty_like(T), np.empty_like(T)
+        if np.any(fast):
+            out_p[fast], out_l[fast], out_v[fast] = sa.evaluate(T[fast])
+        # near Tc the solver runs once per distinct temperature (a register's vessels share them)
+        T_unique, back = np.unique(T[~fast], return_inverse=True)
+        s = self._above_expansions(T_unique)
+        out_p[~fast], out_l[~fast], out_v[~fast] = s.P[back], s.rho_liquid[back], s.rho_vapor[back]
+        return Saturation(T=T, P=out_p, rho_liquid=out_l, rho_vapor=out_v)
+
+    def saturation_solved(self, T: FloatArray, *, to_round_off: bool = False) -> Saturation:
+        """Saturation at T [K] (array) by solving the phase equilibrium, never from expansions.
+
+        A reference equation is solved by Newton's method on the two densities (Akasaka's
+        form, thermo.helmholtz_solvers), started from its ancillary equations and, within
+        NEAR_CRITICAL_SPAN_K of Tc, by continuation from below; ``to_round_off`` iterates each
+        solution further, until Newton's corrections stop shrinking (what the superancillary
+        builder fits to). Other models: the bracketed Newton iteration in ln P
+        (thermo.saturation).
+        """
         Tc, Pc, rhoc = self.model_critical
         T = np.atleast_1d(np.asarray(T, dtype=float))
         if self.is_reference:
-            return self._reference_saturation(T)
+            s = self._reference_saturation(T)
+            if to_round_off:
+                s = saturation_newton(
+                    self.eos, T, s.rho_liquid, s.rho_vapor, self.eos.rho_r, step_tol=0.0
+                )
+            return s
         with np.errstate(divide="ignore"):
             guess = np.log(Pc) + 5.373 * (1.0 + self.data.acentric_factor) * (1.0 - Tc / T)
         return saturation_T(
             self.eos, T, Tc=Tc, Pc=Pc, rhoc=rhoc, T_min=self.T_min_saturation, ln_P_guess=guess
         )
 
-    def _reference_saturation(self, T: np.ndarray) -> Saturation:
+    def _check_saturation_range(self, T: np.ndarray) -> None:
         Tc = self.model_critical[0]
         T_min = self.T_min_saturation
         bad = (T >= Tc) | (T < T_min * (1 - 1e-12)) | ~np.isfinite(T)
@@ -243,6 +300,10 @@ class Fluid:
                 f"no saturation state at {T[bad][0]:.6g} K: saturation exists from the triple "
                 f"point {T_min:.6g} K up to the critical temperature {Tc:.6g} K"
             )
+
+    def _reference_saturation(self, T: np.ndarray) -> Saturation:
+        Tc = self.model_critical[0]
+        self._check_saturation_range(T)
         anc = self.eos.ancillaries
         rl = ancillary_value(anc["saturated_liquid_density"], T)
         rv = ancillary_value(anc["saturated_vapour_density"], T)
@@ -262,7 +323,8 @@ class Fluid:
         """How close below the critical temperature saturation converges for this model [K]:
         the first of SATURATION_GAPS_K at which it does (found once, then remembered). Closer
         than this the phase-equilibrium conditions are not resolved in double precision (most
-        reference equations converge at Tc − 10 µK; that of R22 only at Tc − 1 mK)."""
+        reference equations converge at Tc − 10 µK; that of R22 only at Tc − 1 mK). Judged by
+        the solver itself (:meth:`saturation_solved`), whatever start saturation_molar takes."""
         gap = getattr(self, "_saturation_gap", None)
         if gap is None:
             Tc = self.model_critical[0]
@@ -270,7 +332,7 @@ class Fluid:
             for trial in SATURATION_GAPS_K:
                 try:
                     with np.errstate(all="ignore"):  # a trial that fails may overflow on the way
-                        sat = self.saturation_molar(np.array([Tc - trial]))
+                        sat = self.saturation_solved(np.array([Tc - trial]))
                 except FillcheckError:
                     continue
                 if np.isfinite(sat.P[0]) and sat.rho_liquid[0] > sat.rho_vapor[0]:
@@ -279,24 +341,37 @@ class Fluid:
             self._saturation_gap = gap
         return gap
 
-    def _near_critical_saturation(self, T: np.ndarray) -> Saturation:
+    def _near_critical_saturation(
+        self, T: np.ndarray, start: tuple[float, Saturation] | None = None
+    ) -> Saturation:
         """Saturation close to Tc by continuation: from NEAR_CRITICAL_SPAN_K below Tc, steps
         that shrink the distance to Tc threefold, each started from the last solution scaled
         with the critical exponent β ≈ 0.325 of real fluids (Sengers, Levelt Sengers (1986),
         Annu. Rev. Phys. Chem. 37, 189), so every start lies outside the spinodals. All the
-        temperatures step together (vectorised)."""
+        temperatures step together (vectorised). ``start`` = (distance below Tc [K], the
+        saturation there, one value for all) begins the steps there instead."""
         Tc, _, rhoc = self.model_critical
-        anc = self.eos.ancillaries
         target = Tc - np.asarray(T, dtype=float)
-        dT = np.full(target.shape, NEAR_CRITICAL_SPAN_K)
-        T1 = Tc - dT
-        s = saturation_newton(
-            self.eos,
-            T1,
-            ancillary_value(anc["saturated_liquid_density"], T1),
-            ancillary_value(anc["saturated_vapour_density"], T1),
-            self.eos.rho_r,
-        )
+        if start is None:
+            anc = self.eos.ancillaries
+            dT = np.full(target.shape, NEAR_CRITICAL_SPAN_K)
+            T1 = Tc - dT
+            s = saturation_newton(
+                self.eos,
+                T1,
+                ancillary_value(anc["saturated_liquid_density"], T1),
+                ancillary_value(anc["saturated_vapour_density"], T1),
+                self.eos.rho_r,
+            )
+        else:
+            dT = np.full(target.shape, start[0])
+            one = start[1]
+            s = Saturation(
+                T=Tc - dT,
+                P=np.full(target.shape, one.P[0]),
+                rho_liquid=np.full(target.shape, one.rho_liquid[0]),
+                rho_vapor=np.full(target.shape, one.rho_vapor[0]),
+            )
         while np.any(dT > target):
             new = np.maximum(dT / 3.0, target)
             x = (new / dT) ** 0.325
@@ -310,8 +385,32 @@ class Fluid:
             dT = new
         return s
 
+    def _above_expansions(self, T: np.ndarray) -> Saturation:
+        """Saturation between the top of the expansions and Tc: the continuation of
+        _near_critical_saturation, started from the expansions at their top (a start within
+        their ~1e-9 there, so two or three steps instead of eight)."""
+        sa = self.superancillary
+        assert sa is not None
+        Tc = self.model_critical[0]
+        T_top = np.array([sa.T_top])
+        P, rl, rv = sa.evaluate(T_top)
+        top = Saturation(T=T_top, P=P, rho_liquid=rl, rho_vapor=rv)
+        return self._near_critical_saturation(T, start=(Tc - sa.T_top, top))
+
     def saturation(self, T: FloatArray) -> SaturationState:
-        """Saturation pressure [Pa] and saturated densities [kg/m³] at T [K] below Tc."""
+        """Saturation pressure [Pa] and saturated densities [kg/m³] at T [K] below Tc.
+
+        One temperature (a Python or numpy float) that the fluid's saturation expansions cover
+        is evaluated in plain Python, without array machinery; anything else goes through
+        :meth:`saturation_molar`.
+        """
+        sa = self.superancillary
+        if sa is not None and isinstance(T, float | int) and not isinstance(T, bool):
+            t = float(T)
+            if sa.T_min * (1.0 - 1e-12) <= t <= sa.T_top:
+                P, rl, rv = sa.evaluate_scalar(t)
+                M = self.molar_mass
+                return SaturationState(T=t, P=P, rho_liquid=rl * M, rho_vapor=rv * M)
         T_arr = _positive(T, "T")
         sat = self.saturation_molar(np.ravel(T_arr))
         shape = np.shape(T_arr)

@@ -39,8 +39,15 @@ def saturation_newton(
     rho_liquid0: FloatArray,
     rho_vapor0: FloatArray,
     rho_r: float,
+    *,
+    step_tol: float = _STEP_TOL,
 ) -> Saturation:
-    """Saturation at T [K] from starting densities [mol/m³] (Akasaka's Newton iteration)."""
+    """Saturation at T [K] from starting densities [mol/m³] (Akasaka's Newton iteration).
+
+    ``step_tol`` is the relative Newton correction that ends the solve; 0 iterates until the
+    corrections stop shrinking, i.e. to the round-off floor of the equation (what the
+    superancillary builder, tools/build_superancillaries.py, asks for).
+    """
     T = np.asarray(T, dtype=float)
     dl = np.asarray(rho_liquid0, dtype=float) / rho_r
     dv = np.asarray(rho_vapor0, dtype=float) / rho_r
@@ -81,7 +88,7 @@ def saturation_newton(
         with np.errstate(invalid="ignore"):
             rel = np.maximum(np.abs(step_l) / dl, np.abs(step_v) / dv)
         full = scale == 1.0
-        landed = full & (rel <= _STEP_TOL)
+        landed = full & (rel <= step_tol)
         stalled = full & (rel <= _NOISE_MAX) & (rel > 0.5 * previous)
         dl = np.where(done, dl, dl + scale * step_l)
         dv = np.where(done, dv, dv + scale * step_v)

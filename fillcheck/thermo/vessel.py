@@ -151,7 +151,10 @@ def saturation_crossings(fluid: Fluid, rho_mol: FloatArray) -> tuple[np.ndarray,
     The saturated density is monotone in temperature and, near the critical point, close to
     linear in s = √(Tc − T); each root is found in s by the shared bracketed solver
     (thermo.bracketed), all vessels together, so one vessel and a register of thousands follow
-    the same arithmetic and get the same crossing.
+    the same arithmetic and get the same crossing. Where the fluid has saturation expansions
+    (fluids/superancillary.py), each root is first placed on one side of their top: one below
+    it is searched on the expansions alone, one above it between the top and the least gap
+    below Tc, where the phase equilibrium is solved.
     """
     rho = np.atleast_1d(np.asarray(rho_mol, dtype=float)).ravel()
     Tc, _, rhoc = fluid.model_critical
@@ -179,25 +182,44 @@ def saturation_crossings(fluid: Fluid, rho_mol: FloatArray) -> tuple[np.ndarray,
     critical = np.abs(rho / rhoc - 1.0) < 1e-9  # the critical isochore meets the curve at Tc
     T_out[critical & ~gas_at_triple & ~full_at_triple] = Tc
     active = ~(gas_at_triple | full_at_triple | critical)
-    # the search stops CRITICAL_GAP_K below Tc, closer than which a saturation solve is not
-    # resolved in double precision; a crossing inside the gap is put at its safe end (below)
-    gap = max(CRITICAL_GAP_K, float(getattr(fluid, "saturation_gap_K", CRITICAL_GAP_K)))
-    s_min = np.sqrt(gap)
-    f_min = np.full(n, np.nan)
-    if np.any(active):
-        f_min[active] = f(np.full(int(active.sum()), s_min), np.flatnonzero(active))
-    inside_gap = active & ((f_min > 0.0) == (f_hi > 0.0))
-    # liquid-full: from the gap's lower end (earlier is the safe side); dew: at Tc
-    T_out[inside_gap & full] = Tc - gap
-    T_out[inside_gap & ~full] = Tc
-    active &= ~inside_gap
+    s_lo = np.full(n, np.nan)
+    f_lo = np.full(n, np.nan)
+    s_up, f_up = s_hi.copy(), f_hi.copy()
+    near = active.copy()
+    s_top = _expansions_top(fluid)
+    if s_top is not None and np.any(active):
+        # a crossing below the top of the saturation expansions is searched on them alone
+        i = np.flatnonzero(active)
+        f_top = f(np.full(i.size, s_top), i)
+        on_them = (f_top > 0.0) != (f_hi[i] > 0.0)
+        s_lo[i[on_them]] = s_top
+        f_lo[i[on_them]] = f_top[on_them]
+        near[i[on_them]] = False
+        s_up[i[~on_them]] = s_top  # the others cross above the top: search there only
+        f_up[i[~on_them]] = f_top[~on_them]
+    if np.any(near):
+        # the search stops CRITICAL_GAP_K below Tc, closer than which a saturation solve is not
+        # resolved in double precision; a crossing inside the gap is put at its safe end (below)
+        gap = max(CRITICAL_GAP_K, float(getattr(fluid, "saturation_gap_K", CRITICAL_GAP_K)))
+        s_min = float(np.sqrt(gap))
+        i = np.flatnonzero(near)
+        f_min = f(np.full(i.size, s_min), i)
+        in_gap = (f_min > 0.0) == (f_up[i] > 0.0)
+        inside_gap = np.zeros(n, dtype=bool)
+        inside_gap[i[in_gap]] = True
+        # liquid-full: from the gap's lower end (earlier is the safe side); dew: at Tc
+        T_out[inside_gap & full] = Tc - gap
+        T_out[inside_gap & ~full] = Tc
+        active &= ~inside_gap
+        s_lo[i[~in_gap]] = s_min
+        f_lo[i[~in_gap]] = f_min[~in_gap]
     idx = np.flatnonzero(active)
     found = illinois(
         lambda j, s: f(s, idx[j]),
-        np.full(idx.size, s_min),
-        s_hi[idx],
-        f_min[idx],
-        f_hi[idx],
+        s_lo[idx],
+        s_up[idx],
+        f_lo[idx],
+        f_up[idx],
         width=1e-9,  # ΔT = 2 s Δs: a bracket of 1e-9 √K in s is far below a microkelvin
         ftol=1e-13,
     )
@@ -210,3 +232,16 @@ def saturation_crossings(fluid: Fluid, rho_mol: FloatArray) -> tuple[np.ndarray,
     raise ConvergenceError(
         f"saturation crossing of the isochore at {rho[active][0]:.6g} mol/m³ did not converge"
     )
+
+
+def _expansions_top(fluid: Fluid) -> float | None:
+    """s = √(Tc − T) [K^½] at the top of the fluid's saturation expansions, rounded up so that
+    Tc − s² is covered by them; None for a fluid without them."""
+    sa = getattr(fluid, "superancillary", None)
+    if sa is None:
+        return None
+    Tc = fluid.model_critical[0]
+    s = float(np.sqrt(Tc - sa.T_top))
+    while Tc - s * s > sa.T_top:
+        s = float(np.nextafter(s, np.inf))
+    return s
