@@ -1,5 +1,5 @@
 """``python -m fillcheck``: the same command line as the ``fillcheck`` entry point."""
 
-from fillcheck.cli import app
+from fillcheck.cli import main
 
-app(prog_name="fillcheck")
+main()

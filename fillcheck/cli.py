@@ -511,6 +511,11 @@ def _cli_errors() -> tuple[Any, Any, tuple[Any, ...], Any]:
 def main() -> None:
     """Entry point: a usage error (unknown option, missing argument) is one sentence on stderr
     and exit status 2."""
+    if sys.argv[1:] == ["gases"]:
+        # A command without options runs without the option parser, which (typer 0.2x) imports
+        # pydantic to coerce options: listing the gases should cost little more than the catalog.
+        gases()
+        sys.exit(0)
     any_error, usage_error, help_errors, abort = _cli_errors()
     try:
         code = app(standalone_mode=False, prog_name="fillcheck")

@@ -149,8 +149,13 @@ def run(*args: str, **env: str) -> subprocess.CompletedProcess[str]:
     full_env.update(env)
     return subprocess.run(
         [sys.executable, "-m", "fillcheck.cli", *args],
-        cwd=REPO, env=full_env, capture_output=True, text=True, encoding="utf-8",
-        timeout=120, check=False,
+        cwd=REPO,
+        env=full_env,
+        capture_output=True,
+        text=True,
+        encoding="utf-8",
+        timeout=120,
+        check=False,
     )
 
 
@@ -273,8 +278,14 @@ def test_help_examples_name_scenarios_that_exist() -> None:
         ["check", "{file}", "--width", "sixty"],
         ["inspect", "{file}"],
     ],
-    ids=["unknown-option", "unknown-root-option", "missing-file-argument", "bad-units",
-         "bad-width", "unknown-command"],
+    ids=[
+        "unknown-option",
+        "unknown-root-option",
+        "missing-file-argument",
+        "bad-units",
+        "bad-width",
+        "unknown-command",
+    ],
 )
 def test_usage_errors_exit_2(tmp_path: Path, args: list[str]) -> None:
     p = write(tmp_path, PASSING)
@@ -297,16 +308,35 @@ def test_unknown_option_as_a_real_process(tmp_path: Path) -> None:
 
 TOP_KEYS = {"fillcheck_version", "title", "verdict", "vessels"}
 VESSEL_KEYS = {
-    "id", "gas", "model", "verdict", "water_capacity_m3", "charged_mass_kg", "density_kg_m3",
-    "fill_temperature_K", "fill_pressure_Pa", "settled_pressure_Pa", "max_temperature",
-    "min_temperature", "liquid_forms_below_K", "liquid_full_above_K", "allowable_reached_at_K",
-    "max_safe_charge_kg", "max_safe_fill_pressure_Pa", "findings",
+    "id",
+    "gas",
+    "model",
+    "verdict",
+    "water_capacity_m3",
+    "charged_mass_kg",
+    "density_kg_m3",
+    "fill_temperature_K",
+    "fill_pressure_Pa",
+    "settled_pressure_Pa",
+    "max_temperature",
+    "min_temperature",
+    "liquid_forms_below_K",
+    "liquid_full_above_K",
+    "allowable_reached_at_K",
+    "max_safe_charge_kg",
+    "max_safe_fill_pressure_Pa",
+    "findings",
 }
 END_KEYS = {"temperature_K", "pressure_Pa", "phase"}
 FINDING_KEYS = {"code", "severity", "message"}
 NULLABLE = {
-    "fill_temperature_K", "fill_pressure_Pa", "liquid_forms_below_K", "liquid_full_above_K",
-    "allowable_reached_at_K", "max_safe_charge_kg", "max_safe_fill_pressure_Pa",
+    "fill_temperature_K",
+    "fill_pressure_Pa",
+    "liquid_forms_below_K",
+    "liquid_full_above_K",
+    "allowable_reached_at_K",
+    "max_safe_charge_kg",
+    "max_safe_fill_pressure_Pa",
 }
 
 
@@ -410,7 +440,7 @@ def test_json_argon_charge_against_the_reference_equation(
 
 
 def test_json_pressure_spellings(tmp_path: Path) -> None:
-    """"70 MPa(g)" and "101.3 kPa absolute" are accepted and read as gauge and absolute."""
+    """ "70 MPa(g)" and "101.3 kPa absolute" are accepted and read as gauge and absolute."""
     text = PASSING.replace(
         'allowable_pressure = "300 barg"', 'allowable_pressure = "90 MPa(g)"'
     ).replace('"150 barg"', '"70 MPa(g)"')
@@ -468,7 +498,10 @@ def test_no_color_on_a_terminal_gives_plain_text(tmp_path: Path) -> None:
     env.pop("FORCE_COLOR", None)
     proc = subprocess.Popen(
         [sys.executable, "-m", "fillcheck.cli", "check", str(write(tmp_path, PASSING))],
-        cwd=REPO, env=env, stdout=slave, stderr=subprocess.PIPE,
+        cwd=REPO,
+        env=env,
+        stdout=slave,
+        stderr=subprocess.PIPE,
     )
     os.close(slave)
     chunks = []
@@ -530,7 +563,8 @@ def test_us_units_report_has_no_metric_numbers(tmp_path: Path) -> None:
     """
     text = report(write(tmp_path, US_CUSTOMARY), "--units", "us", "--width", "250")
     metric = [
-        line.strip() for line in text.splitlines()
+        line.strip()
+        for line in text.splitlines()
         if re.search(r"\d\s*(bar[ga]?|MPa|°C|kg/m³)\b", line) or re.search(r"\d\s*°C", line)
     ]
     assert not metric, "metric values in a --units us report:\n" + "\n".join(metric)
@@ -566,7 +600,28 @@ def test_report_has_date_and_version(tmp_path: Path) -> None:
 
 
 def test_report_and_json_agree_on_the_verdict(tmp_path: Path) -> None:
-    for name, text, word in (("p.toml", PASSING, "PASS"), ("f.toml", FAILING, "FAIL"),
-                             ("r.toml", REVIEW, "REVIEW")):
+    for name, text, word in (
+        ("p.toml", PASSING, "PASS"),
+        ("f.toml", FAILING, "FAIL"),
+        ("r.toml", REVIEW, "REVIEW"),
+    ):
         out = report(write(tmp_path, text, name))
         assert re.search(rf"Overall verdict:\s+{word}\b", out), (name, out[-800:])
+
+
+@pytest.mark.parametrize("args", [["--version"], ["--help"], ["gases"]])
+def test_light_commands_import_neither_pydantic_nor_the_mixture_engine(args: list[str]) -> None:
+    # -X importtime lists every module a process imports, on stderr.
+    out = subprocess.run(
+        [sys.executable, "-X", "importtime", "-m", "fillcheck", *args],
+        capture_output=True,
+        text=True,
+        cwd=REPO,
+        env={**os.environ, "PYTHONPATH": str(REPO)},
+    )
+    assert out.returncode == 0, out.stderr[-500:]
+    imported = {line.rsplit("|", 1)[-1].strip() for line in out.stderr.splitlines() if "|" in line}
+    assert "fillcheck" in imported  # the listing works
+    heavy = {m for m in imported if m.split(".")[0] in ("pydantic", "scipy", "matplotlib")}
+    assert not heavy, sorted(heavy)[:5]
+    assert not {m for m in imported if "mixture" in m}
