@@ -19,6 +19,7 @@ from fillcheck.fluids.accuracy import REFERENCE_UNCERTAINTY, GasAccuracy, ModelE
 from fillcheck.fluids.catalog import FluidData, lookup
 from fillcheck.fluids.superancillary import Superancillary, load_superancillary
 from fillcheck.models.base import FloatArray
+from fillcheck.models.cubic_saturation import CubicSaturation, cubic_saturation
 from fillcheck.models.idealgas import IdealGasMixture
 from fillcheck.models.multiparameter import (
     MultiparameterModel,
@@ -158,15 +159,16 @@ class Fluid:
             if self.is_reference
             else data.triple_point_temperature_K
         )
-        self.superancillary: Superancillary | None = (
+        self.superancillary: Superancillary | CubicSaturation | None = (
             load_superancillary(
                 self.name, self.eos.fingerprint, self.model_critical[0], self.T_min_saturation
             )
             if self.is_reference
-            else None
+            else cubic_saturation(self.eos, self.T_min_saturation)
         )
-        """The saturation expansions fitted to this equation (fluids/superancillary.py), or None
-        where none is shipped or the shipped file is stale (then the solver is used)."""
+        """The saturation expansions fitted to this equation (fluids/superancillary.py), or for
+        a cubic model its family's reduced curve (models/cubic_saturation.py); None where none
+        is shipped or the shipped file is stale (then the solver is used)."""
         self.accuracy: GasAccuracy | None = (
             accuracy_for(data.name) if not data.user_defined else None
         )
@@ -241,8 +243,9 @@ class Fluid:
 
         A reference equation with shipped expansions (``self.superancillary``) is evaluated from
         them from its lowest saturation temperature up to their ``T_top``; above that the phase
-        equilibrium is solved by continuation from their top, and for every other model by
-        :meth:`saturation_solved`.
+        equilibrium is solved by continuation from their top. A pure cubic model is evaluated
+        from its family's reduced curve where that covers T, elsewhere solved; every other
+        model is solved (:meth:`saturation_solved`).
         """
         T = np.atleast_1d(np.asarray(T, dtype=float))
         sa = self.superancillary
@@ -262,7 +265,10 @@ class Fluid:
             out_p[fast], out_l[fast], out_v[fast] = sa.evaluate(T[fast])
         # near Tc the solver runs once per distinct temperature (a register's vessels share them)
         T_unique, back = np.unique(T[~fast], return_inverse=True)
-        s = self._above_expansions(T_unique)
+        if self.is_reference:
+            s = self._above_expansions(T_unique)
+        else:  # a cubic below its curve's coldest point, or within 1e-12 of Tc
+            s = self.saturation_solved(T_unique)
         out_p[~fast], out_l[~fast], out_v[~fast] = s.P[back], s.rho_liquid[back], s.rho_vapor[back]
         return Saturation(T=T, P=out_p, rho_liquid=out_l, rho_vapor=out_v)
 
