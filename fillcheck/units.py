@@ -562,6 +562,27 @@ def format_volume(m3: float, system: UnitSystem = "metric", digits: int = 1) -> 
     return f"{_num(m3 * 1e3, digits)} L"
 
 
+def format_room_volume(m3: float, system: UnitSystem = "metric", digits: int = 2) -> str:
+    """Show a room's (or a released gas's) volume [m³] as ``m³`` (metric) or ``ft³`` (us),
+    e.g. ``"9.38 m³"``."""
+    if _us(system):
+        return f"{_num(m3 / _FT3_m3, max(digits - 1, 0))} ft³"
+    return f"{_num(m3, digits)} m³"
+
+
+def format_duration(s: float | None) -> str:
+    """Show a time [s] in minutes or hours and minutes (``"42 min"``, ``"1 h 55 min"``);
+    ``None`` is "never"."""
+    if s is None:
+        return "never"
+    if s < 30.0:
+        return "under 1 min" if s > 0.0 else "0 min"
+    minutes = round(s / 60.0)
+    if minutes < 60:
+        return f"{minutes} min"
+    return f"{minutes // 60} h {minutes % 60} min"
+
+
 def format_density(kg_m3: float, system: UnitSystem = "metric", digits: int | None = None) -> str:
     """Show a density [kg/m³] as ``kg/m³`` (metric, 1 digit) or ``lb/ft³`` (us, 2 digits)."""
     if _us(system):

@@ -33,24 +33,24 @@ fluids.catalog.HAZARDS)."""
 THRESHOLDS: dict[str, tuple[float, str]] = {
     "oxygen_minimum": (
         OXYGEN_DEFICIENT,
-        "US OSHA 29 CFR 1910.134(b), oxygen-deficient atmosphere (from memory)",
+        "US OSHA 29 CFR 1910.134(b), definition of an oxygen-deficient atmosphere; from memory",
     ),
     "oxygen_maximum": (
         0.235,
-        "US OSHA 29 CFR 1910.146(b), oxygen-enriched atmosphere (from memory)",
+        "US OSHA 29 CFR 1910.146(b), definition of an oxygen-enriched atmosphere; from memory",
     ),
     "carbon_dioxide_long_term": (
         CO2_EXPOSURE[0],
-        "UK HSE EH40/2005, 8-hour workplace exposure limit (from memory)",
+        "UK HSE EH40/2005, workplace exposure limit, 8-hour reference period; from memory",
     ),
     "carbon_dioxide_short_term": (
         CO2_EXPOSURE[1],
-        "UK HSE EH40/2005, 15-minute workplace exposure limit (from memory)",
+        "UK HSE EH40/2005, workplace exposure limit, 15-minute reference period; from memory",
     ),
     "lfl_share": (
         0.25,
-        "common practice, no source (NFPA 69 keeps combustibles at or below 25 % of the LFL; "
-        "from memory)",
+        "common practice, no source; NFPA 69 keeps combustibles at or below 25 % of the LFL, "
+        "from memory",
     ),
 }
 """Default thresholds of an area's atmosphere [mole fraction, or share of the LFL] and their
@@ -178,7 +178,9 @@ class AreaAssessment:
     release: Release | None
     """The reported release: the largest ratio to a limit (None for an empty area)."""
     curve_t_s: np.ndarray = field(default_factory=lambda: np.zeros(0))
-    curve_gas_fraction: np.ndarray = field(default_factory=lambda: np.zeros(0))
+    """Times after the reported release [s] (CURVE_POINTS of them)."""
+    curve: list[rel.Atmosphere] = field(default_factory=list)
+    """The area's air at those times, ventilated (x₀·exp(−N t))."""
     leak: Leak | None = None
     findings: list[Finding] = field(default_factory=list)
 
@@ -430,7 +432,8 @@ def assess_area(
             end = min(max(CURVE_MIN_s, 2.0 * reported.clear_s), CURVE_MAX_s)
         t = np.linspace(0.0, end, CURVE_POINTS)
         result.curve_t_s = t
-        result.curve_gas_fraction = rel.decay(reported.gas_fraction, area.air_changes_per_s, t)
+        x = rel.decay(reported.gas_fraction, area.air_changes_per_s, t)
+        result.curve = [rel.atmosphere(float(xi), reported.mix) for xi in x]
         findings.append(
             Finding(
                 "area-release",
