@@ -115,7 +115,8 @@ def _release(d: dict[str, Any], w: Words) -> str:
         return said + "; every limit holds"
     if N > 0:
         return said + (
-            f"; at {N:.3g} air change{'' if N == 1 else 's'} an hour the oxygen is back above the limit after "
+            f"; at {N:.3g} air change{'' if N == 1 else 's'} an hour the oxygen is back above "
+            "the limit after "
             f"{units.format_duration(d['oxygen_recovery_s'])} and every limit holds again after "
             f"{units.format_duration(d['clear_s'])}"
         )
