@@ -233,7 +233,7 @@ def check_vessel_areas(
                 if ids
                 else f"no areas are defined; {no_areas_hint}"
             )
-            raise where.fail("area", f"'{aid}' is not an area of this scenario; {known}")
+            raise where.fail("area", f"'{aid}' is not a defined area; {known}")
         members[aid].add(vid)
     for a in areas:
         if a.leak is not None and a.leak.vessel not in members[a.id]:
