@@ -71,7 +71,7 @@ def released_volume(fluid: object, moles: float, T_K: float, P_Pa: float) -> Rel
         return ReleasedVolume(ideal, 1.0, False)
     if not (math.isfinite(rho) and rho > 0.0):
         return ReleasedVolume(ideal, 1.0, False)
-    Z = P_Pa / (rho * R * T_K)
+    Z = P_Pa / (rho * float(getattr(getattr(fluid, "eos", None), "R", R)) * T_K)  # model's own R
     if Z < LIQUID_Z:
         return ReleasedVolume(ideal, 1.0, False)
     return ReleasedVolume(moles / rho, Z, True)
