@@ -9,8 +9,8 @@ the displacement and well-mixed models written out here. Every site and company 
 from __future__ import annotations
 
 import json
-import re
 import math
+import re
 from pathlib import Path
 
 import numpy as np
@@ -100,7 +100,7 @@ def test_atmosphere_of_a_mixture_by_hand() -> None:
     # 70 % nitrogen, 30 % carbon dioxide (mol) at 40 % of the room: O2 = 0.2095 (1 - x),
     # CO2 = 420 ppm (1 - x) + 0.3 x; methane 5 % + propane 5 % in nitrogen: Le Chatelier
     # share = x (0.05/LFL_CH4 + 0.05/LFL_C3H8) with IEC 60079-20-1 limits via `chemicals`.
-    from chemicals.safety import LFL as chem_lfl
+    from chemicals import safety
 
     hz = {"nitrogen": frozenset({"asphyxiant"}), "carbon dioxide": frozenset({"asphyxiant"})}
     mix = rel.gas_mix({"nitrogen": 0.7, "carbon dioxide": 0.3}, hz, LFL)
@@ -115,7 +115,8 @@ def test_atmosphere_of_a_mixture_by_hand() -> None:
     )
     iec = "IEC 60079-20-1 (2010)"
     expected = 0.4 * (
-        0.05 / chem_lfl(CASRN="74-82-8", method=iec) + 0.05 / chem_lfl(CASRN="74-98-6", method=iec)
+        0.05 / safety.LFL(CASRN="74-82-8", method=iec)
+        + 0.05 / safety.LFL(CASRN="74-98-6", method=iec)
     )
     assert rel.atmosphere(0.4, mix).lfl_fraction == pytest.approx(expected, rel=1e-9)
 
@@ -129,12 +130,11 @@ def test_lower_flammable_limit_of_every_flammable_catalog_gas(data) -> None:
     # The published table: IEC 60079-20-1 (2010) as the `chemicals` package (1.5.2) carries it.
     # The refrigerants R32, R152a and R1234yf are not in that table (their limits are ISO 817's,
     # from memory): for them only presence and a plausible range are checked.
-    from chemicals.safety import LFL as chem_lfl
-    from chemicals.safety import LFL_methods
+    from chemicals import safety
 
     assert data.name in LFL, data.name  # else every release of it would be "review"
-    if IEC in LFL_methods(CASRN=data.cas):
-        assert LFL[data.name] == pytest.approx(chem_lfl(CASRN=data.cas, method=IEC), rel=1e-9)
+    if IEC in safety.LFL_methods(CASRN=data.cas):
+        assert LFL[data.name] == pytest.approx(safety.LFL(CASRN=data.cas, method=IEC), rel=1e-9)
     else:
         assert data.name in {"R32", "R152a", "R1234yf"}
         assert 0.01 < LFL[data.name] < 0.2
