@@ -124,13 +124,18 @@ def _release(d: dict[str, Any], w: Words) -> str:
 
 
 def _leak(d: dict[str, Any], w: Words) -> str:
-    return (
+    said = (
         f"a continuous leak from {d['vessel']} ({d['gas']}) of "
         f"{w.m(d['rate_kg_s'] * 3600.0)} an hour settles at {share(d['steady_gas_fraction'])} "
         f"of the area's air: oxygen {share(d['steady_oxygen_fraction'])}, carbon dioxide "
-        f"{share(d['steady_carbon_dioxide_fraction'])}, {share(d['steady_lfl_fraction'])} of the "
-        "LFL"
+        f"{share(d['steady_carbon_dioxide_fraction'])}"
     )
+    if d["steady_lfl_fraction"] > 0:
+        said += f", {share(d['steady_lfl_fraction'])} of the LFL"
+    if d["air_changes_per_s"] > 0 and d["steady_gas_fraction"] < 0.05:
+        small = d["volume_flow_m3_s"] / d["air_changes_per_s"] / d["volume_m3"]
+        said += f" (≈ G/(N·V) = {share(small)})"
+    return said
 
 
 def _leak_limit(d: dict[str, Any], w: Words) -> str:
