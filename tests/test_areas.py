@@ -310,7 +310,7 @@ def test_thresholds_are_inputs_and_say_where_they_come_from() -> None:
     ).areas[0]
     assert a.limits.oxygen_minimum == pytest.approx(0.205)
     assert a.limits.sources["oxygen_minimum"] == "entered"
-    assert "from memory" in a.limits.sources["carbon_dioxide_short_term"]
+    assert "EH40/2005" in a.limits.sources["carbon_dioxide_short_term"]  # UK HSE, from memory
     assert "no source" in a.limits.sources["lfl_share"]
     assert a.verdict == "fail"  # 200 m³ passes 19.5 % but not 20.5 %
 

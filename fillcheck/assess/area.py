@@ -31,30 +31,34 @@ HAZARD_CLASSES = ("asphyxiant", "oxidizing", "flammable", "toxic", "corrosive")
 fluids.catalog.HAZARDS)."""
 
 THRESHOLDS: dict[str, tuple[float, str]] = {
+    # every figure and its definition recalled from memory: verify against the edition that
+    # applies to you (reports print the publication only, as for every other source)
     "oxygen_minimum": (
         OXYGEN_DEFICIENT,
-        "US OSHA 29 CFR 1910.134(b), definition of an oxygen-deficient atmosphere; from memory",
+        "US OSHA 29 CFR 1910.134(b), definition of an oxygen-deficient atmosphere",
     ),
     "oxygen_maximum": (
         0.235,
-        "US OSHA 29 CFR 1910.146(b), definition of an oxygen-enriched atmosphere; from memory",
+        "US OSHA 29 CFR 1910.146(b), definition of an oxygen-enriched atmosphere",
     ),
     "carbon_dioxide_long_term": (
         CO2_EXPOSURE[0],
-        "UK HSE EH40/2005, workplace exposure limit, 8-hour reference period; from memory",
+        "UK HSE EH40/2005, workplace exposure limit, 8-hour reference period",
     ),
     "carbon_dioxide_short_term": (
         CO2_EXPOSURE[1],
-        "UK HSE EH40/2005, workplace exposure limit, 15-minute reference period; from memory",
+        "UK HSE EH40/2005, workplace exposure limit, 15-minute reference period",
     ),
     "lfl_share": (
         0.25,
-        "common practice, no source; NFPA 69 keeps combustibles at or below 25 % of the LFL, "
-        "from memory",
+        "common practice, no source (NFPA 69 keeps combustibles at or below 25 % of the LFL)",
     ),
 }
 """Default thresholds of an area's atmosphere [mole fraction, or share of the LFL] and their
-sources; an area's ``thresholds`` table replaces any of them ("entered")."""
+sources, all recalled from memory (the oxygen limits: US OSHA 29 CFR 1910.134 and 1910.146;
+carbon dioxide: UK HSE EH40/2005, as assess.cautions; 25 % of the LFL: common practice, no
+source, NFPA 69's figure recalled from memory); an area's ``thresholds`` table replaces any of
+them ("entered")."""
 
 CRITERIA = ("oxygen-deficient", "oxygen-enriched", "carbon-dioxide", "flammable")
 """The limits a release fails: oxygen below the minimum, oxygen equivalent above the maximum,

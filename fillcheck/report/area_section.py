@@ -21,12 +21,13 @@ MODEL = (
     "held at the atmosphere's pressure (air leaves as gas enters); gas volume from the vessel's "
     "equation of state at the area's temperature and the atmosphere's pressure. Verdict: an "
     "instantaneous release with pure displacement, gas fraction = V_gas/V_area, the upper bound "
-    "(the simple estimate of industrial-gas guidance on oxygen depletion, e.g. BCGA GN11; from "
-    "memory); shown beside it: a gradual release into the mixed area with outflow, "
+    "(the simple estimate of industrial-gas guidance on oxygen depletion, e.g. BCGA GN11); "
+    "shown beside it: a gradual release into the mixed area with outflow, "
     "1 − exp(−V_gas/V_area). Ventilation: C(t) = C0·exp(−N t). Well mixed: heavy or cold gas "
     "collects low and may be far richer there (SAFETY.md)"
 )
-"""The model in one sentence, printed under every area."""
+"""The model in one sentence, printed under every area (BCGA Guidance Note GN11's formula
+recalled from memory; the report names the publication only)."""
 
 ENTERED = {
     "volume": "free air volume",
