@@ -434,3 +434,23 @@ def test_register_column_area_with_an_areas_file(tmp_path: Path) -> None:
     assert json.loads(run.stdout)["areas"][0]["verdict"] == "fail"
     alone = CliRunner().invoke(app, ["check", str(reg)])
     assert alone.exit_code == 2 and "column 'area'" in alone.output
+
+
+def test_breathing_air_released_brings_its_own_oxygen() -> None:
+    # Air (Lemmon et al. 2000 pseudo-pure equation) is 20.95 % oxygen: released into a small
+    # room it changes nothing (hand formula: 0.2095 (1 - x) + 0.2095 x = 0.2095).
+    a = _assess([_vessel("AIR", "air")], [_area(volume="12 m3")]).areas[0]
+    assert a.release.gas_fraction > 0.5
+    assert a.release.air.oxygen == pytest.approx(AIR_O2, rel=1e-12)
+    assert a.verdict == "pass"
+
+
+def test_one_finding_a_toxic_component_naming_every_vessel() -> None:
+    v = [
+        _vessel(f"NH3-{i}", "ammonia", fill={"mass": f"{i + 1} kg"}, water_capacity="12 L")
+        for i in range(3)
+    ]
+    a = _assess(v, [_area(volume="5000 m3")]).areas[0]
+    toxic = [f for f in a.findings if f.code == "area-toxic-release"]
+    assert len(toxic) == 1
+    assert toxic[0].data["vessel"] == "NH3-2" and len(toxic[0].data["vessels"]) == 3

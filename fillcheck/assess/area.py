@@ -204,11 +204,19 @@ def _composition(fluid: Any) -> tuple[dict[str, float], dict[str, frozenset[str]
 
 
 def _release(
-    v: VesselInput, a: VesselAssessment, area: AreaInput, P_atm: float, lim: Limits
+    v: VesselInput,
+    a: VesselAssessment,
+    area: AreaInput,
+    P_atm: float,
+    lim: Limits,
+    per_mole: dict[int, rel.ReleasedVolume],
 ) -> Release:
     fluid = v.fluid
     moles = a.charged_mass_kg / float(fluid.molar_mass)
-    vol = rel.released_volume(fluid, moles, area.temperature_K, P_atm)
+    if id(fluid) not in per_mole:  # one density solve per gas and model (vessels share Fluids)
+        per_mole[id(fluid)] = rel.released_volume(fluid, 1.0, area.temperature_K, P_atm)
+    one = per_mole[id(fluid)]
+    vol = rel.ReleasedVolume(one.volume_m3 * moles, one.Z, one.flashed)
     z, hz = _composition(fluid)
     mix = rel.gas_mix(z, hz, LFL)
     x = rel.displacement_fraction(vol.volume_m3, area.volume_m3)
@@ -354,39 +362,56 @@ def _findings(area: AreaInput, releases: Sequence[Release], lim: Limits) -> list
                 },
             )
         )
-    for r in releases:
+    toxic: dict[str, list[tuple[float, str]]] = {}
+    unknown: dict[str, list[str]] = {}
+    liquid: dict[str, list[Release]] = {}
+    for r in releases:  # one finding a component (or gas), naming every vessel it concerns
         for name, x in r.air.toxic.items():
-            out.append(
-                Finding(
-                    "area-toxic-release",
-                    "review",
-                    "",
-                    {"vessel": r.vessel, "component": name, "fraction": x},
-                )
-            )
+            toxic.setdefault(name, []).append((x, r.vessel))
         for name in r.mix.flammable_without_limit:
-            out.append(
-                Finding(
-                    "area-flammable-limit-unknown",
-                    "review",
-                    "",
-                    {"vessel": r.vessel, "component": name},
-                )
-            )
+            unknown.setdefault(name, []).append(r.vessel)
         if not r.volume.flashed:
-            out.append(
-                Finding(
-                    "area-release-liquid",
-                    "warning",
-                    "",
-                    {
-                        "vessel": r.vessel,
-                        "gas": r.gas,
-                        "temperature_K": area.temperature_K,
-                        "released_volume_m3": r.volume.volume_m3,
-                    },
-                )
+            liquid.setdefault(r.gas, []).append(r)
+    for name, hits in toxic.items():
+        x, vessel = max(hits)
+        out.append(
+            Finding(
+                "area-toxic-release",
+                "review",
+                "",
+                {
+                    "vessel": vessel,
+                    "component": name,
+                    "fraction": x,
+                    "vessels": [v for _, v in hits],
+                },
             )
+        )
+    for name, vessels in unknown.items():
+        out.append(
+            Finding(
+                "area-flammable-limit-unknown",
+                "review",
+                "",
+                {"vessel": vessels[0], "component": name, "vessels": vessels},
+            )
+        )
+    for gas, rs in liquid.items():
+        r = max(rs, key=lambda r: r.volume.volume_m3)
+        out.append(
+            Finding(
+                "area-release-liquid",
+                "warning",
+                "",
+                {
+                    "vessel": r.vessel,
+                    "gas": gas,
+                    "temperature_K": area.temperature_K,
+                    "released_volume_m3": r.volume.volume_m3,
+                    "vessels": [x.vessel for x in rs],
+                },
+            )
+        )
     if breached and not N > 0.0:
         out.append(Finding("area-no-ventilation", "warning", "", {"volume_m3": area.volume_m3}))
     return out
@@ -400,7 +425,8 @@ def assess_area(
     """The inventory and the releases of one area with its vessels (input and assessment)."""
     lim = limits_for(area)
     T, P = area.temperature_K, atmospheric_pressure_Pa
-    releases = [_release(v, a, area, P, lim) for v, a in members]
+    per_mole: dict[int, rel.ReleasedVolume] = {}
+    releases = [_release(v, a, area, P, lim, per_mole) for v, a in members]
     inventory = []
     for h in HAZARD_CLASSES:
         rows = [(r, a) for r, (_, a) in zip(releases, members, strict=True) if h in a.hazards]

@@ -126,7 +126,8 @@ def gas_mix(
 ) -> GasMix:
     """The parts of a gas of mole ``fractions`` (by component name) that act on the air, with
     each component's hazard classes and the lower flammable limits [mole fraction] known."""
-    oxygen = float(fractions.get("oxygen", 0.0))
+    # air (a catalog gas of its own, breathing air) brings its own oxygen
+    oxygen = float(fractions.get("oxygen", 0.0)) + AIR_OXYGEN * float(fractions.get("air", 0.0))
     equivalent = oxygen + sum(
         CI.get(n, 1.0) * x
         for n, x in fractions.items()

@@ -46,6 +46,14 @@ def _others(d: dict[str, Any]) -> str:
     return f"; the release of {shown} breaks it too"
 
 
+def _also(d: dict[str, Any]) -> str:
+    rest = [v for v in d.get("vessels", []) if v != d["vessel"]]
+    if not rest:
+        return ""
+    shown = ", ".join(rest[:5]) + (f" and {len(rest) - 5} more" if len(rest) > 5 else "")
+    return f" (also {shown})"
+
+
 def _breach(criterion: str) -> Callable[[dict[str, Any], Words], str]:
     def words(d: dict[str, Any], w: Words) -> str:
         limit = _LIMIT[criterion].format(limit=share(d["limit"]))
@@ -73,14 +81,14 @@ def _toxic(d: dict[str, Any], w: Words) -> str:
     return (
         f"a release of {d['vessel']} brings {d['component']} to {share(d['fraction'])} of the "
         "area's air; fillcheck's catalog holds no exposure limit for it, so the release is "
-        "not judged: compare it with the supplier's safety data sheet"
+        f"not judged: compare it with the supplier's safety data sheet{_also(d)}"
     )
 
 
 def _no_limit(d: dict[str, Any], w: Words) -> str:
     return (
         f"{d['component']} in {d['vessel']} is flammable but fillcheck has no lower flammable "
-        "limit for it, so its release is not judged against one"
+        f"limit for it, so its release is not judged against one{_also(d)}"
     )
 
 
@@ -90,7 +98,7 @@ def _liquid(d: dict[str, Any], w: Words) -> str:
         "and atmospheric pressure: part of it lies as a cold liquid pool that gives off gas "
         "for a long time; the release is counted as "
         f"{units.format_room_volume(d['released_volume_m3'], w.system)} of ideal gas, all the "
-        "vapour the charge can make"
+        f"vapour the charge can make{_also(d)}"
     )
 
 
