@@ -454,3 +454,22 @@ def test_one_finding_a_toxic_component_naming_every_vessel() -> None:
     toxic = [f for f in a.findings if f.code == "area-toxic-release"]
     assert len(toxic) == 1
     assert toxic[0].data["vessel"] == "NH3-2" and len(toxic[0].data["vessels"]) == 3
+
+
+def test_jsonl_of_a_scenario_with_a_failing_area_exits_1(tmp_path: Path) -> None:
+    # the stream holds vessels only; the area's verdict still sets the exit status
+    path = tmp_path / "cage.toml"
+    path.write_text(SCENARIO.format(volume="20 m3"), encoding="utf-8")
+    run = CliRunner().invoke(app, ["check", str(path), "--jsonl", "-"])
+    assert run.exit_code == 1
+    assert json.loads(run.stdout.splitlines()[0])["verdict"] == "pass"
+
+
+def test_room_volumes_and_times_as_printed() -> None:
+    from fillcheck import units
+
+    # 1 ft = 0.3048 m exactly: 1 m³ = 35.31 ft³
+    assert units.format_room_volume(1.0, "us") == "35.3 ft³"
+    assert units.format_room_volume(9.381, "metric") == "9.38 m³"
+    assert units.format_duration(6888.7) == "1 h 55 min"
+    assert units.format_duration(None) == "never"
