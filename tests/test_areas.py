@@ -473,3 +473,12 @@ def test_room_volumes_and_times_as_printed() -> None:
     assert units.format_room_volume(9.381, "metric") == "9.38 m³"
     assert units.format_duration(6888.7) == "1 h 55 min"
     assert units.format_duration(None) == "never"
+
+
+def test_html_report_has_an_area_section_with_its_chart() -> None:
+    from fillcheck.report.html_report import render_html
+
+    result = _assess([_vessel("N2-1", "nitrogen")], [_area()])
+    page = render_html(result)
+    area = page[page.index("<h2>Storage areas</h2>") :]
+    assert "Area ROOM" in area and "<svg" in area and "area-oxygen-deficient" in area
