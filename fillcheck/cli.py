@@ -122,6 +122,14 @@ def check(
             "(same results, in the register's order).",
         ),
     ] = 1,
+    areas_file: Annotated[
+        Path | None,
+        typer.Option(
+            "--areas",
+            help="With a register (.csv): a TOML file of [[area]] tables that the register's "
+            "column 'area' names.",
+        ),
+    ] = None,
 ) -> None:
     """Check every vessel of a scenario and print the report.
 
@@ -135,9 +143,18 @@ def check(
     """
     from fillcheck.assess import assess_scenario
 
+    if areas_file is not None and file.suffix.lower() != ".csv":
+        _refuse(
+            "--areas goes with a register (.csv); a scenario file holds its own [[area]] tables"
+        )
     if jsonl_out is not None:
         if json_out or html_out is not None:
             _refuse("give --jsonl alone: it replaces the report, --json and --html")
+        if areas_file is not None:
+            _refuse(
+                "--areas does not go with --jsonl (the stream holds vessels only); check the "
+                "register with its areas without --jsonl"
+            )
         _check_jsonl(file, jsonl_out, force, units, jobs)
     if jobs != 1:
         _refuse("--jobs applies to --jsonl only; add --jsonl OUT, or leave --jobs out")
@@ -152,7 +169,8 @@ def check(
         if register:
             from fillcheck.scenario.register import load_register
 
-            scenario = load_register(file)
+            areas = () if areas_file is None else _areas(areas_file)
+            scenario = load_register(file, areas=areas)
         else:
             from fillcheck.scenario.resolve import load_scenario
 
@@ -200,6 +218,7 @@ def _check_jsonl(file: Path, out: str, force: bool, units: Units | None, jobs: i
         if problem is not None:
             _refuse(problem)
     counts = {"pass": 0, "fail": 0, "review": 0}
+    area_verdicts: list[str] = []
     tmp: str | None = None
     try:
         if to_stdout:
@@ -221,10 +240,15 @@ def _check_jsonl(file: Path, out: str, force: bool, units: Units | None, jobs: i
 
                 sc = load_scenario(file)
                 system = _system(units, sc)
+                assessed = assess_many(sc.vessels, sc.reference_temperature_K)
                 results = (
                     vessel_dict(a, sc.atmospheric_pressure_Pa, system)  # type: ignore[arg-type]
-                    for a in assess_many(sc.vessels, sc.reference_temperature_K)
+                    for a in assessed
                 )
+                if sc.areas:  # the stream holds vessels; the areas' verdicts set the status
+                    from fillcheck.assess.area import assess_areas
+
+                    area_verdicts = [x.verdict for x in assess_areas(sc, assessed)]
             for result in results:
                 sink.write(json.dumps(result, ensure_ascii=False) + "\n")
                 counts[result["verdict"]] += 1
@@ -239,12 +263,34 @@ def _check_jsonl(file: Path, out: str, force: bool, units: Units | None, jobs: i
         if tmp is not None:
             Path(tmp).unlink(missing_ok=True)
     total = sum(counts.values())
+    areas_said = ""
+    if area_verdicts:
+        n = {k: area_verdicts.count(k) for k in ("pass", "fail", "review")}
+        areas_said = (
+            f"; {len(area_verdicts)} storage areas (not in the stream): {n['pass']} pass, "
+            f"{n['fail']} fail, {n['review']} review"
+        )
     typer.echo(
         f"fillcheck: {total} vessels: {counts['pass']} pass, {counts['fail']} fail, "
-        f"{counts['review']} review" + ("" if to_stdout else f"; wrote {neutralise(out)}"),
+        f"{counts['review']} review"
+        + areas_said
+        + ("" if to_stdout else f"; wrote {neutralise(out)}"),
         err=True,
     )
-    raise typer.Exit(EXIT_PASS if total == counts["pass"] else EXIT_FINDINGS)
+    every_pass = total == counts["pass"] and all(v == "pass" for v in area_verdicts)
+    raise typer.Exit(EXIT_PASS if every_pass else EXIT_FINDINGS)
+
+
+def _areas(path: Path) -> Any:
+    """The areas of an --areas file; a refusal names that file."""
+    from fillcheck.scenario.register import load_areas
+
+    try:
+        return load_areas(path)
+    except InputError as exc:
+        msg = str(exc)
+        names = (path.name, neutralise(path.name))
+        _refuse(msg if msg.startswith(names) else f"{path.name}: {msg}")
 
 
 def _system(option: Units | None, scenario: Any) -> Any:

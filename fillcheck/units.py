@@ -81,6 +81,21 @@ _TABLES: dict[str, _Table] = {
         **_same(1.0, 0.0, "W/(m2 K)", "W/(m² K)", "W/(m²·K)", "W/(m2·K)", "W/m2/K"),
     },
     "area": {**_same(1.0, 0.0, "m2", "m^2", "m²"), **_same(1e-4, 0.0, "cm2", "cm^2", "cm²")},
+    "rate": {
+        **_same(1.0 / 3600.0, 0.0, "/h", "1/h", "per h", "per hour", "ACH"),
+        **_same(1.0 / 60.0, 0.0, "/min", "1/min", "per min"),
+        **_same(1.0, 0.0, "/s", "1/s", "per s"),
+    },
+    "mass flow": {
+        **_same(1.0, 0.0, "kg/s"),
+        **_same(1.0 / 60.0, 0.0, "kg/min"),
+        **_same(1.0 / 3600.0, 0.0, "kg/h"),
+        **_same(1e-3, 0.0, "g/s"),
+        **_same(1e-3 / 60.0, 0.0, "g/min"),
+        **_same(1e-3 / 3600.0, 0.0, "g/h"),
+        **_same(_LB_kg / 3600.0, 0.0, "lb/h"),
+        **_same(_LB_kg / 60.0, 0.0, "lb/min"),
+    },
 }
 _LOOKUP = {kind: {k.casefold(): v for k, v in t.items()} for kind, t in _TABLES.items()}
 _CANONICAL_PRESSURE = {k.casefold(): k for k in _TABLES["pressure"]}
@@ -98,6 +113,8 @@ _EXAMPLE = {
     "specific heat": "0.48 kJ/(kg K)",
     "heat transfer coefficient": "150 W/(m2 K)",
     "area": "0.8 m2",
+    "rate": "1 /h",
+    "mass flow": "0.5 kg/h",
 }
 _NUMBER_RE = re.compile(r"[+-]?(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][+-]?\d+)?")
 _NONFINITE_RE = re.compile(r"[+-]?(?:nan|inf(?:inity)?)(?![a-z])", re.IGNORECASE)
@@ -380,6 +397,30 @@ def parse_area(text: str) -> float:
     return _amount(text, "area")
 
 
+def parse_rate(text: str) -> float:
+    """Parse a rate per unit time in ``/h 1/h ACH /min /s`` (``"per hour"`` too), e.g. a
+    ventilation rate of ``"1 /h"`` air changes per hour; not negative.
+
+    Returns
+    -------
+    float
+        Rate [1/s].
+    """
+    return _amount(text, "rate")
+
+
+def parse_mass_flow(text: str) -> float:
+    """Parse a mass flow in ``kg/s kg/min kg/h g/s g/min g/h lb/h lb/min``, e.g.
+    ``"0.5 kg/h"``; not negative.
+
+    Returns
+    -------
+    float
+        Mass flow [kg/s].
+    """
+    return _amount(text, "mass flow")
+
+
 def parse_fraction(text: str | float | int) -> float:
     """Parse a fraction: a plain number (``0.18``, ``"0.18"``) or ``%``/``percent``/``ppm``.
 
@@ -519,6 +560,27 @@ def format_volume(m3: float, system: UnitSystem = "metric", digits: int = 1) -> 
     if _us(system):
         return f"{_num(m3 / _USGAL_m3, digits)} gal"
     return f"{_num(m3 * 1e3, digits)} L"
+
+
+def format_room_volume(m3: float, system: UnitSystem = "metric", digits: int = 2) -> str:
+    """Show a room's (or a released gas's) volume [m³] as ``m³`` (metric) or ``ft³`` (us),
+    e.g. ``"9.38 m³"``."""
+    if _us(system):
+        return f"{_num(m3 / _FT3_m3, max(digits - 1, 0))} ft³"
+    return f"{_num(m3, digits)} m³"
+
+
+def format_duration(s: float | None) -> str:
+    """Show a time [s] in minutes or hours and minutes (``"42 min"``, ``"1 h 55 min"``);
+    ``None`` is "never"."""
+    if s is None:
+        return "never"
+    if s < 30.0:
+        return "under 1 min" if s > 0.0 else "0 min"
+    minutes = round(s / 60.0)
+    if minutes < 60:
+        return f"{minutes} min"
+    return f"{minutes // 60} h {minutes % 60} min"
 
 
 def format_density(kg_m3: float, system: UnitSystem = "metric", digits: int | None = None) -> str:

@@ -64,6 +64,12 @@ PINT_NAMES: dict[str, tuple[dict[str, str], str]] = {
                                    "W/m2/K": "W/(m**2*K)"}, "W/(m**2*K)"),
     "area": ({"m2": "m**2", "m^2": "m**2", "m²": "m**2", "cm2": "cm**2", "cm^2": "cm**2",
               "cm²": "cm**2"}, "m**2"),
+    "rate": ({"/h": "1/hour", "1/h": "1/hour", "per h": "1/hour", "per hour": "1/hour",
+              "ACH": "1/hour", "/min": "1/min", "1/min": "1/min", "per min": "1/min",
+              "/s": "1/s", "1/s": "1/s", "per s": "1/s"}, "1/s"),
+    "mass flow": ({"kg/s": "kg/s", "kg/min": "kg/min", "kg/h": "kg/hour", "g/s": "g/s",
+                   "g/min": "g/min", "g/h": "g/hour", "lb/h": "lb/hour",
+                   "lb/min": "lb/min"}, "kg/s"),
 }
 PARSERS = {"volume": parse_volume, "mass": parse_mass, "density": parse_density,
            "filling ratio": parse_filling_ratio}

@@ -17,6 +17,11 @@ def assess_scenario(
 ) -> ScenarioAssessment:
     """Assess every vessel of a validated scenario (findings as data: report/ words them)."""
     vessels = assess_many(scenario.vessels, scenario.reference_temperature_K, progress)
+    areas = []
+    if scenario.areas:
+        from fillcheck.assess.area import assess_areas
+
+        areas = assess_areas(scenario, vessels)
     return ScenarioAssessment(
         scenario.source,
         scenario.title,
@@ -24,6 +29,7 @@ def assess_scenario(
         scenario.atmospheric_pressure_Pa,
         vessels,
         is_register,
+        areas,
     )
 
 

@@ -198,8 +198,11 @@ class ScenarioAssessment:
     vessels: list[VesselAssessment]
     is_register: bool = False
     """Whether the input was a register (summary first, details only for fail and review)."""
+    areas: list[Any] = field(default_factory=list)
+    """The storage areas (assess.area.AreaAssessment), INTERFACES.md §8."""
 
     @property
     def verdict(self) -> Verdict:
-        """The worst vessel verdict."""
-        return worst({v.verdict for v in self.vessels})
+        """The worst verdict of the vessels and the storage areas: a failing area fails the
+        whole result as a failing vessel does."""
+        return worst({v.verdict for v in self.vessels} | {a.verdict for a in self.areas})

@@ -103,6 +103,9 @@ OXYGEN_DEFICIENT = 0.195
 """Oxygen mole fraction below which an atmosphere is oxygen-deficient (US OSHA, 29 CFR
 1910.134(b); from memory): a mixture with less oxygen than this asphyxiates [-]."""
 
+AIR_OXYGEN = 0.2095
+"""Oxygen mole fraction of dry air (US Standard Atmosphere 1976: 20.946 %; from memory) [-]."""
+
 TRACE = 1e-3
 """Mole fraction at or above which a toxic or corrosive component makes the mixture's caution
 (the lower of the GHS cut-off values, 0.1 %; from memory) [-]."""

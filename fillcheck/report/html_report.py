@@ -110,7 +110,19 @@ CHART_LIMIT = 50
 """A register's HTML report draws at most this many vessel charts (the worst first)."""
 
 
+def _areas(a: ScenarioAssessment, fmt: Formatter) -> str:
+    if not a.areas:
+        return ""
+    from fillcheck.report.area_section import area_html
+
+    return "<h2>Storage areas</h2>" + "".join(area_html(x, fmt) for x in a.areas)
+
+
 def _body(a: ScenarioAssessment, fmt: Formatter) -> str:
+    return _vessels_body(a, fmt) + _areas(a, fmt)
+
+
+def _vessels_body(a: ScenarioAssessment, fmt: Formatter) -> str:
     if not a.is_register:
         return "".join(_vessel(v, fmt) for v in a.vessels)
     summary = register_summary(a.vessels)

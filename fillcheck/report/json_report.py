@@ -141,7 +141,17 @@ def scenario_dict(
         "reference_temperature_K": a.reference_temperature_K,
         "atmospheric_pressure_Pa": a.atmospheric_pressure_Pa,
         "vessels": [vessel_dict(v, a.atmospheric_pressure_Pa, system) for v in a.vessels],
+        "areas": _areas(a, system),
     }
+
+
+def _areas(a: ScenarioAssessment, system: UnitSystem) -> list[dict[str, Any]]:
+    """The storage areas (INTERFACES.md §8); an empty list where the scenario has none."""
+    if not a.areas:
+        return []
+    from fillcheck.report.area_section import area_dict
+
+    return [area_dict(x, system) for x in a.areas]
 
 
 def render_json(

@@ -174,6 +174,14 @@ def _render(
     for v in shown:
         console.print(Rule())
         console.print(_vessel_block(v, fmt))
+    if a.areas:
+        from fillcheck.report.area_section import area_terminal
+
+        console.print(Rule(Text("Storage areas", style="bold")))
+        for i, area in enumerate(a.areas):
+            if i:
+                console.print(Rule())
+            console.print(area_terminal(area, fmt))
     console.print(Rule())
     console.print(Text.assemble("Overall verdict: ", _verdict_text(a.verdict), f"   ({tally(a)})"))
     print_sign_off(console, record)
@@ -235,4 +243,11 @@ def header_rows(
 def tally(a: ScenarioAssessment) -> str:
     """'n pass, n fail, n need review'."""
     counts = {k: sum(1 for v in a.vessels if v.verdict == k) for k in ("pass", "fail", "review")}
-    return f"{counts['pass']} pass, {counts['fail']} fail, {counts['review']} need review"
+    said = f"{counts['pass']} pass, {counts['fail']} fail, {counts['review']} need review"
+    if not a.areas:
+        return said
+    areas = {k: sum(1 for x in a.areas if x.verdict == k) for k in ("pass", "fail", "review")}
+    return (
+        f"vessels: {said}; storage areas: {areas['pass']} pass, {areas['fail']} fail, "
+        f"{areas['review']} need review"
+    )

@@ -11,6 +11,7 @@ from collections.abc import Callable
 from fillcheck import units
 from fillcheck.assess.markings import RATED_TOLERANCE
 from fillcheck.assess.result import Finding, VesselAssessment
+from fillcheck.report.area_words import AREA_WORDS
 from fillcheck.report.fill_words import FILL_WORDS
 from fillcheck.report.finding_words import WORDS, Words, checked_text
 
@@ -42,7 +43,7 @@ def finding_message(f: Finding, system: units.UnitSystem = "metric", atm: float 
     if f.message or f.data is None:
         return f.message
     d = f.data
-    words = WORDS.get(f.code) or FILL_WORDS.get(f.code)
+    words = WORDS.get(f.code) or FILL_WORDS.get(f.code) or AREA_WORDS.get(f.code)
     if words is not None:
         return words(d, Words(system, atm))
     p = _p(system, atm)

@@ -15,6 +15,7 @@ import re
 from pathlib import Path
 
 from fillcheck.errors import InputError
+from fillcheck.scenario.area_input import AreaInput
 from fillcheck.scenario.bounds import TEXT_CHARS_MAX
 from fillcheck.scenario.resolve import Scenario, scenario_from_dict
 from fillcheck.scenario.source import read_input_with_digest
@@ -40,6 +41,7 @@ COLUMNS: dict[str, str] = {
     "service_pressure": "marking.service_pressure",
     "test_pressure": "marking.test_pressure",
     "tare_mass": "marking.tare_mass",
+    "area": "area",
 }
 """Register column -> scenario field path."""
 REQUIRED = ("id", "gas", "water_capacity", "max_temperature", "allowable_pressure")
@@ -47,11 +49,61 @@ FIELDS = {v: k for k, v in COLUMNS.items()}
 """Scenario field path -> register column (for messages)."""
 
 
-def load_register(path: str | Path, title: str | None = None) -> Scenario:
-    """Read and validate a CSV register of vessels."""
+def load_register(
+    path: str | Path, title: str | None = None, areas: tuple[AreaInput, ...] = ()
+) -> Scenario:
+    """Read and validate a CSV register of vessels (``areas``: the storage areas its column
+    ``area`` may name, read with :func:`load_areas`)."""
     p = Path(path)
     text, digest = read_input_with_digest(path, "register (.csv)", "save the register as UTF-8 CSV")
-    return dataclasses.replace(register_from_text(text, p.name, title), input_sha256=digest)
+    return dataclasses.replace(register_from_text(text, p.name, title, areas), input_sha256=digest)
+
+
+def load_areas(path: str | Path) -> tuple[AreaInput, ...]:
+    """The ``[[area]]`` tables of a TOML file (a register's ``--areas``), validated; the file
+    holds areas only."""
+    import tomllib
+
+    from pydantic import BaseModel, ConfigDict, Field, ValidationError
+
+    from fillcheck.scenario.area_input import AreaSpec, resolve_areas
+
+    class _Areas(BaseModel):
+        model_config = ConfigDict(extra="forbid", frozen=True)
+        area: list[AreaSpec] = Field(min_length=1)
+
+    name = neutralise(Path(path).name)
+    text, _ = read_input_with_digest(path, "areas file (.toml)", "save the areas as UTF-8 TOML")
+    try:
+        raw = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(
+            f"{name}: is not valid TOML ({exc}); check quotes and brackets near that line"
+        ) from None
+    try:
+        spec = _Areas.model_validate(raw)
+    except ValidationError as exc:
+        err = exc.errors()[0]
+        loc = list(err["loc"])
+        at = ""
+        if len(loc) >= 2 and loc[0] == "area" and isinstance(loc[1], int):
+            tables = raw.get("area") if isinstance(raw.get("area"), list) else []
+            aid = tables[loc[1]].get("id") if isinstance(tables[loc[1]], dict) else None
+            at = (
+                f"area '{neutralise(str(aid))}', "
+                if aid is not None
+                else f"area number {loc[1] + 1}, "
+            )
+            loc = loc[2:]
+        field = ".".join(str(p) for p in loc) or "area"
+        what = {
+            "missing": "is required but missing",
+            "extra_forbidden": (
+                "is not a key of an [[area]] table (an areas file holds [[area]] tables only)"
+            ),
+        }.get(err["type"], neutralise(err["msg"]).lower())
+        raise InputError(f"{name}: {at}field '{neutralise(field)}': {what}") from None
+    return resolve_areas(spec.area, name, InputError)
 
 
 def read_rows(path: str | Path) -> list[list[str]]:
@@ -102,8 +154,10 @@ def _rows(text: str, name: str) -> list[list[str]]:
     return rows
 
 
-def register_from_text(text: str, name: str, title: str | None = None) -> Scenario:
-    """Validate a register given as CSV text."""
+def register_from_text(
+    text: str, name: str, title: str | None = None, areas: tuple[AreaInput, ...] = ()
+) -> Scenario:
+    """Validate a register given as CSV text (``areas``: those its column ``area`` may name)."""
     rows = _rows(text.lstrip("\ufeff"), name)
     name = neutralise(name)
     if not rows:
@@ -114,7 +168,10 @@ def register_from_text(text: str, name: str, title: str | None = None) -> Scenar
     if not vessels:
         raise InputError(f"{name}: has a header but no vessels; add one vessel a row")
     return scenario_from_dict(
-        {"title": title, "vessel": vessels} if title else {"vessel": vessels}, name, FIELDS
+        {"title": title, "vessel": vessels} if title else {"vessel": vessels},
+        name,
+        FIELDS,
+        areas=areas,
     )
 
 

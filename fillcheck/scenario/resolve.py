@@ -26,6 +26,7 @@ from fillcheck.errors import InputError
 from fillcheck.fluids.catalog import FluidData, lookup, user_fluid
 from fillcheck.models.registry import has_reference_equation
 from fillcheck.scenario import bounds
+from fillcheck.scenario.area_input import AreaInput, check_vessel_areas, resolve_areas
 from fillcheck.scenario.filling_input import FillingInput, resolve_filling
 from fillcheck.scenario.markings import Marking, resolve_marking
 from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
@@ -96,6 +97,8 @@ class VesselInput:
     """What is stamped on the cylinder (scenario.markings), or None."""
     filling: FillingInput | None = None
     """How the fill is made (``[vessel.filling]``), or None."""
+    area: str | None = None
+    """The id of the storage area the vessel is in (``area``), or None."""
 
 
 @dataclass(frozen=True)
@@ -119,6 +122,8 @@ class Scenario:
     units: str = "metric"
     """The unit system the report uses unless the command line says otherwise: the scenario's
     ``units``, else "us" for a file whose every quantity is in US units, else "metric"."""
+    areas: tuple[AreaInput, ...] = ()
+    """The storage areas (``[[area]]``), INTERFACES.md §8."""
 
 
 def load_scenario(path: str | Path) -> Scenario:
@@ -152,11 +157,14 @@ def scenario_from_dict(
     name: str = "<scenario>",
     columns: dict[str, str] | None = None,
     first_row: int = 2,
+    areas: tuple[AreaInput, ...] | None = None,
 ) -> Scenario:
     """Validate a scenario given as a dictionary (as parsed from TOML).
 
     With ``columns`` (field path -> register column), vessel i is row i + ``first_row`` of a
     register (2: the row after the header) and messages name the row and the column.
+    ``areas``: storage areas read from another file (a register's ``--areas``), in place of
+    the dictionary's own ``area`` tables.
     """
     name = neutralise(name)
     if isinstance(raw, dict):
@@ -188,8 +196,11 @@ def scenario_from_dict(
             "value, between 50 and 110 kPa absolute",
         )
     user_gases = _user_gases(spec.gas, where)
+    if areas is None:
+        areas = resolve_areas(spec.area, name, InputError)
     seen: set[str] = set()
     vessels = []
+    placed = []
     fluids: dict[Any, Any] = {}  # one Fluid per gas (or composition) and model
     for i, v in enumerate(spec.vessel):
         vid = str(v.id)
@@ -201,7 +212,18 @@ def scenario_from_dict(
         if vid in seen:
             raise w.fail("id", "the id is used twice; give every vessel its own id")
         seen.add(vid)
+        area = None if v.area is None else str(v.area)
+        placed.append((vid, area, w))
         vessels.append(_vessel(v, w, P_atm, user_gases, fluids, T_ref))
+    check_vessel_areas(
+        placed,
+        areas,
+        name,
+        InputError,
+        "give the areas with --areas AREAS.toml"
+        if columns is not None
+        else "add an [[area]] table with that id",
+    )
     return Scenario(
         name,
         spec.title,
@@ -212,6 +234,7 @@ def scenario_from_dict(
         None if spec.permit_number is None else str(spec.permit_number),
         spec.prepared_by,
         units=spec.units or preferred_units(vessels, raw if isinstance(raw, dict) else {}),
+        areas=areas,
     )
 
 
@@ -645,6 +668,7 @@ def _vessel(
         notes,
         marking,
         filling,
+        None if v.area is None else str(v.area),
     )
 
 
@@ -920,6 +944,17 @@ def _vessel_of(
     loc: list[Any], raw: Any, columns: dict[str, str] | None, first_row: int = 2
 ) -> tuple[str, list[Any]]:
     """The vessel (or register row) a location lies in, as message text, and the rest of it."""
+    if len(loc) >= 2 and loc[0] == "area" and isinstance(loc[1], int):
+        tables = raw.get("area") if isinstance(raw, dict) else None
+        tables = tables if isinstance(tables, list) else []
+        aid = (
+            tables[loc[1]].get("id")
+            if loc[1] < len(tables) and isinstance(tables[loc[1]], dict)
+            else None
+        )
+        if isinstance(aid, str | int) and not isinstance(aid, bool):
+            return f"area '{_short(neutralise(str(aid)))}', ", loc[2:]
+        return f"area number {loc[1] + 1}, ", loc[2:]
     if not (len(loc) >= 2 and loc[0] == "vessel" and isinstance(loc[1], int)):
         return "", loc
     idx = loc[1]
@@ -994,6 +1029,7 @@ def _short(text: str, n: int = 60) -> str:
 def _known_keys(loc: list[Any]) -> list[str]:
     """The keys allowed where an unknown key ``loc`` was found."""
     from fillcheck.scenario import schema
+    from fillcheck.scenario.area_input import AreaSpec, LeakSpec, ThresholdsSpec
 
     parents = [p for p in loc[:-1] if isinstance(p, str)]
     model: Any = schema.ScenarioSpec
@@ -1006,6 +1042,9 @@ def _known_keys(loc: list[Any]) -> list[str]:
             "limits": schema.LimitsSpec,
             "rules": schema.RulesSpec,
             "marking": schema.MarkingSpec,
+            "area": AreaSpec,
+            "leak": LeakSpec,
+            "thresholds": ThresholdsSpec,
         }.get(p)
         if sub is None:
             return []

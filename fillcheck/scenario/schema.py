@@ -11,6 +11,7 @@ from typing import Literal
 
 from pydantic import BaseModel, ConfigDict, Field, StrictFloat, StrictInt, StrictStr
 
+from fillcheck.scenario.area_input import AreaSpec
 from fillcheck.scenario.filling_input import FillingSpec
 
 Quantity = StrictStr
@@ -104,6 +105,8 @@ class VesselSpec(_Strict):
     marking: MarkingSpec | None = None
     filling: FillingSpec | None = None
     """How the fill is made (scenario.filling_input): the fill process, INTERFACES.md §6."""
+    area: StrictStr | StrictInt | None = None
+    """The id of the ``[[area]]`` the vessel is stored in (INTERFACES.md §8), or None."""
 
 
 class ScenarioSpec(_Strict):
@@ -118,3 +121,5 @@ class ScenarioSpec(_Strict):
     atmospheric_pressure: Quantity = "101.325 kPa absolute"
     gas: list[GasSpec] = Field(default_factory=list)
     vessel: list[VesselSpec] = Field(min_length=1)
+    area: list[AreaSpec] = Field(default_factory=list)
+    """Storage areas (scenario.area_input), INTERFACES.md §8."""
