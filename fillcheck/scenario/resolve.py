@@ -26,6 +26,7 @@ from fillcheck.errors import InputError
 from fillcheck.fluids.catalog import FluidData, lookup, user_fluid
 from fillcheck.models.registry import has_reference_equation
 from fillcheck.scenario import bounds
+from fillcheck.scenario.blend_input import BlendInput, resolve_blend
 from fillcheck.scenario.filling_input import FillingInput, resolve_filling
 from fillcheck.scenario.markings import Marking, resolve_marking
 from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
@@ -96,6 +97,8 @@ class VesselInput:
     """What is stamped on the cylinder (scenario.markings), or None."""
     filling: FillingInput | None = None
     """How the fill is made (``[vessel.filling]``), or None."""
+    blend: BlendInput | None = None
+    """How the mixture is prepared in the vessel (``[vessel.blend]``), or None."""
 
 
 @dataclass(frozen=True)
@@ -627,6 +630,15 @@ def _vessel(
         entered,
         None if marking is None else marking.tare_mass_kg,
     )
+    blend = resolve_blend(
+        v.blend,
+        fluid,
+        where,
+        P_atm,
+        lambda text, fld: _temperature(text, fld, where, fluid),
+        entered,
+        None if marking is None else marking.tare_mass_kg,
+    )
     return VesselInput(
         str(v.id),
         fluid,
@@ -645,6 +657,7 @@ def _vessel(
         notes,
         marking,
         filling,
+        blend,
     )
 
 

@@ -11,6 +11,7 @@ from typing import Literal
 
 from pydantic import BaseModel, ConfigDict, Field, StrictFloat, StrictInt, StrictStr
 
+from fillcheck.scenario.blend_input import BlendSpec
 from fillcheck.scenario.filling_input import FillingSpec
 
 Quantity = StrictStr
@@ -104,6 +105,8 @@ class VesselSpec(_Strict):
     marking: MarkingSpec | None = None
     filling: FillingSpec | None = None
     """How the fill is made (scenario.filling_input): the fill process, INTERFACES.md §6."""
+    blend: BlendSpec | None = None
+    """How a mixture is prepared in the vessel (scenario.blend_input), INTERFACES.md §7."""
 
 
 class ScenarioSpec(_Strict):
