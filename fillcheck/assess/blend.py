@@ -113,8 +113,8 @@ class BlendRecipe:
 
 def _content_fluid(f: MixtureFluid, present: np.ndarray, n: np.ndarray) -> Any:
     idx = np.flatnonzero(present)
-    if idx.size == 1:
-        return Fluid(f.components[idx[0]], None)
+    if idx.size == 1:  # one gas: its reference equation, or the same cubic as the mixture's
+        return Fluid(f.components[idx[0]], None if f.model == "reference" else f.model)
     z = n[idx] / n[idx].sum()
     return MixtureFluid([f.components[i] for i in idx], z, f.model)
 
