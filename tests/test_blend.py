@@ -474,3 +474,13 @@ def test_every_order_of_a_ternary_against_coolprop(T) -> None:
                 continue
             amounts = {c: (target[c] if c in order[:k] else 0.0) for c in names}
             assert s.stop_pressure_Pa == pytest.approx(_heos_pressure(amounts, T), rel=2e-6)
+
+
+def test_step_beyond_the_model_range_asks_for_review() -> None:
+    """Argon–oxygen blended to 450 bar at 15 °C (charge by CoolProp 8.0.0 HEOS) lies above
+    the 35 MPa normal range of the GERG-2008 form (Kunz, Wagner 2012): review, no pass."""
+    f = fillcheck.mixture({"argon": 0.98, "oxygen": 0.02})
+    n_tot = _heos_charge(["argon", "oxygen"], f.z, 288.15, 450e5)
+    r = blend_recipe(_vessel(f, _blend(("oxygen", "argon"), 288.15)), n_tot * f.molar_mass)
+    found = [(x.code, x.severity, x.data["step"]) for x in blend_findings(r)]
+    assert found == [("blend-outside-model-range", "review", 2)]

@@ -81,6 +81,7 @@ class BlendStep:
     liquid_present_cold: bool | None
     scale_reading_kg: float | None
     table_P_Pa: np.ndarray
+    in_model_range: bool = True
 
 
 @dataclass
@@ -287,6 +288,7 @@ def blend_recipe(v: Any, charged_mass_kg: float) -> BlendRecipe:
                 liquid_present_cold=c.liquid_cold,
                 scale_reading_kg=None if b.tare_mass_kg is None else b.tare_mass_kg + mass,
                 table_P_Pa=c.table_P_Pa,
+                in_model_range=bool(f.validity.contains(T, c.stop_pressure_Pa)),
             )
         )
     steps_of = [order.index(c) + 1 for c in names]
@@ -340,7 +342,8 @@ def blend_cautions(f: MixtureFluid, order: tuple[str, ...]) -> list[Caution]:
 def blend_findings(r: BlendRecipe) -> list[Finding]:
     """The recipe's findings as data: a step whose content holds liquid at the blend
     temperature fails; one that does in the coldest storage only warns; a residual holding
-    more of a component than the target, and a recipe not computed."""
+    more of a component than the target fails; a step stopping outside the model's range and a
+    recipe not computed ask for review."""
     out: list[Finding] = []
     if r.error is not None:
         return [Finding("blend-not-computed", "review", "", {"error": r.error})]
@@ -357,6 +360,19 @@ def blend_findings(r: BlendRecipe) -> list[Finding]:
                     "warning",
                     "",
                     {**data, "temperature_K": r.cold_temperature_K},
+                )
+            )
+        if not s.in_model_range:
+            out.append(
+                Finding(
+                    "blend-outside-model-range",
+                    "review",
+                    "",
+                    {
+                        "step": k,
+                        "pressure_Pa": s.stop_pressure_Pa,
+                        "temperature_K": r.temperature_K,
+                    },
                 )
             )
         if s.added_mass_kg < 0.0:

@@ -35,13 +35,17 @@ def blend_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
     if r.residual_mass_kg > 0.0:
         rows.append(("residual gas in the vessel", fmt.m(r.residual_mass_kg)))
     for k, s in enumerate(r.steps, start=1):
-        stop = "liquid: weigh it" if s.liquid_present else fmt.p(s.stop_pressure_Pa)
+        stop = (
+            "no stop pressure: liquid forms, go by weight"
+            if s.liquid_present
+            else fmt.p(s.stop_pressure_Pa)
+        )
         scale = "" if s.scale_reading_kg is None else f"; scale reads {fmt.m(s.scale_reading_kg)}"
         rows.append(
             (
                 f"step {k}: {s.component}",
                 f"add {fmt.m(s.added_mass_kg)} (contents {fmt.m(s.cumulative_mass_kg)}){scale}; "
-                f"stop at {stop} (ideal gas: {fmt.p(s.ideal_stop_pressure_Pa)})",
+                f"stop at {stop} (ideal-gas recipe: {fmt.p(s.ideal_stop_pressure_Pa)})",
             )
         )
     if r.suggested_order is not None:

@@ -366,6 +366,13 @@ def _blend_residual_exceeds(d: dict[str, Any], w: Words) -> str:
     )
 
 
+def _blend_outside_model_range(d: dict[str, Any], w: Words) -> str:
+    return (
+        f"step {d['step']} of the blend stops at {w.p(d['pressure_Pa'])} and "
+        f"{w.t(d['temperature_K'])}, outside the model's range: its stop pressure is not checked"
+    )
+
+
 def _blend_not_computed(d: dict[str, Any], w: Words) -> str:
     return f"the blend recipe could not be computed ({d['error']}); check it by hand"
 
@@ -375,6 +382,7 @@ WORDS: dict[str, Callable[[dict[str, Any], Words], str]] = {
     "blend-step-condenses-cold": _blend_step_condenses_cold,
     "blend-residual-exceeds": _blend_residual_exceeds,
     "blend-not-computed": _blend_not_computed,
+    "blend-outside-model-range": _blend_outside_model_range,
     "interaction-unknown": _interaction_unknown,
     "liquid-dropout": _liquid_dropout,
     "allowable-exceeded": _allowable_exceeded,
