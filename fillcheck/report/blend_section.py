@@ -14,8 +14,10 @@ from fillcheck.report.content import Formatter
 
 TOLERANCE_METHOD = (
     "first-order propagation of the scale's resolution and the gauge's accuracy (JCGM 100:2008, "
-    "GUM); gravimetric preparation as in ISO 6142-1 (cited from memory)"
+    "GUM); gravimetric preparation as in ISO 6142-1"
 )
+"""Reports print publications only; that ISO 6142-1 is cited from memory is said in
+assess/blend.py and the README (tests/test_report_words.py bans recall remarks in reports)."""
 ASSUMED = "assumed: common practice, no source"
 
 
