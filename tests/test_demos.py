@@ -202,6 +202,32 @@ MIXTURE_DEMOS = [
     ),
     ("cold_yard_mixtures.toml", "TG-G21-50L", "pass", {"liquid-dropout"}, set(), "propane"),
     ("cold_yard_mixtures.toml", "ARCO2-50-044", "pass", set(), {"liquid-dropout"}, None),
+    # blended in the cylinder: CO2 first at 15 °C stays gas, CO2 first at 5 °C condenses (the
+    # blend fails; nitrogen first is suggested), argon–oxygen over a residual passes
+    (
+        "blend_beverage_gas_shop.toml",
+        "BEV-7030-CO2-FIRST",
+        "pass",
+        set(),
+        {"blend-step-condenses", "blend-step-condenses-cold"},
+        None,
+    ),
+    (
+        "blend_beverage_gas_shop.toml",
+        "BEV-6040-CO2-FIRST-COLD",
+        "fail",
+        {"blend-step-condenses", "blend-step-condenses-cold"},
+        set(),
+        None,
+    ),
+    (
+        "blend_beverage_gas_shop.toml",
+        "WELD-ARO2-RESIDUAL",
+        "pass",
+        set(),
+        {"blend-step-condenses"},
+        None,
+    ),
 ]
 
 MIXTURE_IDS = [f"{m[0]}:{m[1]}" for m in MIXTURE_DEMOS]

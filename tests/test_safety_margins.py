@@ -746,13 +746,15 @@ _CASES += [
 
 def test_the_table_names_every_finding_code_of_assess() -> None:
     # every vessel code written in fillcheck/assess (Finding("code", ...) or the margin-<limit>
-    # codes); a storage area's findings (assess/area.py) are a store's, not a vessel's, and are
-    # exercised scenario by scenario in tests/test_areas.py
+    # codes); a storage area's findings (assess/area.py) and a blend recipe's (assess/blend.py)
+    # are exercised scenario by scenario in tests/test_areas.py and tests/test_blend.py
     from pathlib import Path
 
     root = Path(__file__).resolve().parents[1] / "fillcheck" / "assess"
     text = "\n".join(
-        p.read_text(encoding="utf-8") for p in root.glob("*.py") if p.name not in ("area.py",)
+        p.read_text(encoding="utf-8")
+        for p in root.glob("*.py")
+        if p.name not in ("area.py", "blend.py")
     )
     written = set(re.findall(r'Finding\(\s*"([a-z-]+)"', text))
     written -= {"margin-"}  # Finding("margin-" + kind, ...): the two codes below

@@ -14,6 +14,7 @@ from collections.abc import Callable, Sequence
 
 import numpy as np
 
+from fillcheck.assess.blend import blend_findings, blend_recipe
 from fillcheck.assess.cautions import cautions_for, gas_facts
 from fillcheck.assess.charge import largest_safe_densities
 from fillcheck.assess.checked_range import checked_ranges
@@ -313,6 +314,9 @@ def _assess_group(vs: Sequence[VesselInput], T_ref: float, small: bool) -> list[
             a.composition = dict(zip(f.component_names, map(float, f.z), strict=True))
             a.dropout = dropout_at_coldest(f, path, slice(j * k, (j + 1) * k))
             a.findings += mixture_findings(f, a.dropout, v.notes, a.liquefied)
+        if mixture and v.blend is not None:  # the blend recipe (assess.blend)
+            a.blend = blend_recipe(v, a.charged_mass_kg)
+            a.findings += blend_findings(a.blend)
         liquid = any(x.code in ("liquid-present", "liquid-full-at-top") for x in a.findings)
         near = any(x.code == "near-critical" for x in a.findings)
         a.cautions = cautions_for(
@@ -322,6 +326,8 @@ def _assess_group(vs: Sequence[VesselInput], T_ref: float, small: bool) -> list[
             cold_dropout=liquid and a.liquefied is False,
             fire=float(T_hi[j]) > FIRE_TEMPERATURE_K,
         )
+        if a.blend is not None:
+            a.cautions += a.blend.cautions
         results.append(a)
     return results
 

@@ -155,6 +155,8 @@ class VesselAssessment:
     """The cylinder's markings against its charge (assess.markings.MarkingResult), or None."""
     filling: Any = None
     """The fill process (assess.fill_process.FillResult) where ``[vessel.filling]`` is given."""
+    blend: Any = None
+    """The blend recipe (assess.blend.BlendRecipe) where ``[vessel.blend]`` is given."""
 
     atmospheric_pressure_Pa: float = 101325.0
     """The scenario's atmospheric pressure [Pa], the zero of its gauge pressures."""

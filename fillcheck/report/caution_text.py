@@ -12,6 +12,17 @@ from collections.abc import Callable, Mapping
 from fillcheck.assess.cautions import Caution
 
 TEXT = {
+    "blend-oxidizer-compression": (
+        "Blending with an oxidizer: every valve, regulator, hose and the cylinder itself must be "
+        "cleaned for oxygen service; open the valves slowly, because gas rushing into a dead end "
+        "is compressed almost adiabatically and can heat a seat or a speck of grease to ignition."
+    ),
+    "blend-flammable-into-oxidizer": (
+        "A flammable gas goes into a vessel already holding an oxidizer: the mixture passes "
+        "through compositions that can burn; check the final and every intermediate mixture "
+        "against its flammability limits before blending, and consider adding the flammable gas "
+        "first."
+    ),
     "oxygen-service": (
         "Oxygen service: use valves, regulators and hoses cleaned for oxygen and free of oil and "
         "grease; open valves slowly and fill slowly: fast compression heats the gas and can "
@@ -152,6 +163,13 @@ REASON: dict[str, Callable[[dict[str, float | str]], str]] = {
     ),
     "near-critical": lambda f: "a state of the checked range lies near the critical point",
     "fire": lambda f: "the checked range reaches fire temperatures",
+    "blend-oxidizer-compression": lambda f: (
+        f"the blend adds {', '.join(f['components'])}, an oxidizer, through the valves"
+    ),
+    "blend-flammable-into-oxidizer": lambda f: (
+        f"step {f['step']} adds {f['component']} (flammable) after "
+        f"{', '.join(f['oxidizers'])} (oxidizing)"
+    ),
 }
 """Why each caution was attached, from its facts."""
 

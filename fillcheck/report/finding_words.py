@@ -334,7 +334,55 @@ def _liquid_dropout(d: dict[str, Any], w: Words) -> str:
     )
 
 
+def _order(names: list[str]) -> str:
+    return ", then ".join(names)
+
+
+def _blend_step_condenses(d: dict[str, Any], w: Words) -> str:
+    then = (
+        f"; the order {_order(d['suggested_order'])} keeps every step gas"
+        if d.get("suggested_order")
+        else ""
+    )
+    return (
+        f"after step {d['step']} of the blend ({d['component']} added) the contents hold liquid "
+        f"at {w.t(d['temperature_K'])}: the stop pressure does not tell the amount in, and the "
+        f"mixture's composition is not what the recipe says{then}"
+    )
+
+
+def _blend_step_condenses_cold(d: dict[str, Any], w: Words) -> str:
+    return (
+        f"the contents after step {d['step']} of the blend ({d['component']} added) would hold "
+        f"liquid at {w.t(d['temperature_K'])}, the lowest storage temperature: do not leave the "
+        "vessel part-blended in the cold"
+    )
+
+
+def _blend_residual_exceeds(d: dict[str, Any], w: Words) -> str:
+    return (
+        f"the residual gas already holds {w.m(d['excess_kg'])} more {d['component']} than the "
+        "target mixture: vent or evacuate the vessel before blending"
+    )
+
+
+def _blend_outside_model_range(d: dict[str, Any], w: Words) -> str:
+    return (
+        f"step {d['step']} of the blend stops at {w.p(d['pressure_Pa'])} and "
+        f"{w.t(d['temperature_K'])}, outside the model's range: its stop pressure is not checked"
+    )
+
+
+def _blend_not_computed(d: dict[str, Any], w: Words) -> str:
+    return f"the blend recipe could not be computed ({d['error']}); check it by hand"
+
+
 WORDS: dict[str, Callable[[dict[str, Any], Words], str]] = {
+    "blend-step-condenses": _blend_step_condenses,
+    "blend-step-condenses-cold": _blend_step_condenses_cold,
+    "blend-residual-exceeds": _blend_residual_exceeds,
+    "blend-not-computed": _blend_not_computed,
+    "blend-outside-model-range": _blend_outside_model_range,
     "interaction-unknown": _interaction_unknown,
     "liquid-dropout": _liquid_dropout,
     "allowable-exceeded": _allowable_exceeded,

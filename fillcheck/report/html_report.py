@@ -17,6 +17,7 @@ from pathlib import Path
 from fillcheck import units
 from fillcheck.assess.result import ScenarioAssessment, VesselAssessment
 from fillcheck.errors import InputError
+from fillcheck.report.blend_section import blend_rows, blend_table_rows
 from fillcheck.report.caution_text import caution_reason, caution_text
 from fillcheck.report.chart import margin_chart_svg, vessel_chart_svg
 from fillcheck.report.content import (
@@ -72,6 +73,17 @@ def _table(rows: list[tuple[str, str]], numeric: bool = False) -> str:
     return f"<table>{body}</table>"
 
 
+def _grid(head: list[str], rows: list[list[str]]) -> str:
+    """A table with a header row (empty without rows)."""
+    if not rows:
+        return ""
+    top = "".join(f"<th>{_e(h)}</th>" for h in head)
+    body = "".join(
+        "<tr>" + "".join(f'<td class="num">{_e(c)}</td>' for c in r) + "</tr>" for r in rows
+    )
+    return f"<table><tr>{top}</tr>{body}</table>"
+
+
 def _vessel(v: VesselAssessment, fmt: Formatter) -> str:
     findings = "".join(
         f'<tr><td class="sev-{f.severity}">{_e(f.severity.upper())}</td><td>{_e(f.code)}</td>'
@@ -95,6 +107,12 @@ def _vessel(v: VesselAssessment, fmt: Formatter) -> str:
             f"<h3>Fill process</h3>{_table(filling_rows(v, fmt), numeric=True)}"
             f'<div class="chart">{filling_chart_svg(v, fmt.system, fmt.atm)}</div>'
             if v.filling is not None
+            else ""
+        )
+        + (
+            f"<h3>Blend recipe</h3>{_table(blend_rows(v, fmt))}"
+            f"<h3>Blend stop pressures by gas temperature</h3>{_grid(*blend_table_rows(v, fmt))}"
+            if v.blend is not None
             else ""
         )
         + f'<p class="plan">{_e(fill_plan(v, fmt))}</p>'

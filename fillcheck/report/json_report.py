@@ -8,6 +8,7 @@ from typing import Any
 
 from fillcheck import __version__
 from fillcheck.assess.result import EndState, Finding, ScenarioAssessment, VesselAssessment
+from fillcheck.report.blend_section import blend_dict
 from fillcheck.report.caution_text import caution_reason, caution_text
 from fillcheck.report.fill_section import filling_dict
 from fillcheck.report.permit_record import Record, record_json
@@ -125,6 +126,7 @@ def vessel_dict(
         },
         **_marking(v),
         "filling": filling_dict(v),
+        "blend": blend_dict(v),
     }
 
 

@@ -15,6 +15,7 @@ from rich.text import Text
 
 from fillcheck import __version__, units
 from fillcheck.assess.result import ScenarioAssessment, VesselAssessment
+from fillcheck.report.blend_section import blend_rows, blend_table_rows
 from fillcheck.report.caution_text import caution_reason, caution_text
 from fillcheck.report.content import (
     CLOSING_CAUTION,
@@ -97,6 +98,8 @@ def _vessel_block(v: VesselAssessment, fmt: Formatter) -> Group:
     parts: list = [head, entered, res]
     if v.filling is not None:  # the fill process (report.fill_section)
         parts.append(_filling_table(v, fmt))
+    if v.blend is not None:  # the blend recipe (report.blend_section)
+        parts += _blend_tables(v, fmt)
     parts += [Text(fill_plan(v, fmt), style="bold"), findings]
     parts.append(Text(verdict_sentence(v, fmt), style=_VERDICT_STYLE[v.verdict]))
     if v.cautions:
@@ -105,6 +108,28 @@ def _vessel_block(v: VesselAssessment, fmt: Formatter) -> Group:
             parts.append(Text(f"  • {caution_text(c)}"))
             parts.append(Text(f"    Why: {caution_reason(c)}.", style="dim"))
     return Group(*parts)
+
+
+def _blend_tables(v: VesselAssessment, fmt: Formatter) -> list[Table]:
+    t = Table(title="Blend recipe", title_justify="left", show_edge=False, expand=False)
+    t.add_column("quantity")
+    t.add_column("value")
+    for row in blend_rows(v, fmt):
+        t.add_row(*row)
+    head, rows = blend_table_rows(v, fmt)
+    if not rows:
+        return [t]
+    s = Table(
+        title="Blend stop pressures by gas temperature",
+        title_justify="left",
+        show_edge=False,
+        expand=False,
+    )
+    for h in head:
+        s.add_column(h, justify="right")
+    for r in rows:
+        s.add_row(*r)
+    return [t, s]
 
 
 def _filling_table(v: VesselAssessment, fmt: Formatter) -> Table:

@@ -27,6 +27,7 @@ from fillcheck.fluids.catalog import FluidData, lookup, user_fluid
 from fillcheck.models.registry import has_reference_equation
 from fillcheck.scenario import bounds
 from fillcheck.scenario.area_input import AreaInput, check_vessel_areas, resolve_areas
+from fillcheck.scenario.blend_input import BlendInput, resolve_blend
 from fillcheck.scenario.filling_input import FillingInput, resolve_filling
 from fillcheck.scenario.markings import Marking, resolve_marking
 from fillcheck.scenario.schema import GasSpec, ScenarioSpec, VesselSpec
@@ -99,6 +100,8 @@ class VesselInput:
     """How the fill is made (``[vessel.filling]``), or None."""
     area: str | None = None
     """The id of the storage area the vessel is in (``area``), or None."""
+    blend: BlendInput | None = None
+    """How the mixture is prepared in the vessel (``[vessel.blend]``), or None."""
 
 
 @dataclass(frozen=True)
@@ -650,6 +653,15 @@ def _vessel(
         entered,
         None if marking is None else marking.tare_mass_kg,
     )
+    blend = resolve_blend(
+        v.blend,
+        fluid,
+        where,
+        P_atm,
+        lambda text, fld: _temperature(text, fld, where, fluid),
+        entered,
+        None if marking is None else marking.tare_mass_kg,
+    )
     return VesselInput(
         str(v.id),
         fluid,
@@ -669,6 +681,7 @@ def _vessel(
         marking,
         filling,
         None if v.area is None else str(v.area),
+        blend,
     )
 
 

@@ -12,6 +12,7 @@ from typing import Literal
 from pydantic import BaseModel, ConfigDict, Field, StrictFloat, StrictInt, StrictStr
 
 from fillcheck.scenario.area_input import AreaSpec
+from fillcheck.scenario.blend_input import BlendSpec
 from fillcheck.scenario.filling_input import FillingSpec
 
 Quantity = StrictStr
@@ -107,6 +108,8 @@ class VesselSpec(_Strict):
     """How the fill is made (scenario.filling_input): the fill process, INTERFACES.md §6."""
     area: StrictStr | StrictInt | None = None
     """The id of the ``[[area]]`` the vessel is stored in (INTERFACES.md §8), or None."""
+    blend: BlendSpec | None = None
+    """How a mixture is prepared in the vessel (scenario.blend_input), INTERFACES.md §7."""
 
 
 class ScenarioSpec(_Strict):

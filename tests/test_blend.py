@@ -1,0 +1,486 @@
+"""Blend recipes (assess.blend, INTERFACES.md §7) against CoolProp 8.0.0 and the ideal-gas law.
+
+Reference: CoolProp 8.0.0 HEOS. fillcheck's default mixture model is the multi-fluid model of
+the GERG-2008 form (Kunz, Wagner (2012), J. Chem. Eng. Data 57, 3032) with the pure fluids'
+reference equations; CoolProp's HEOS backend evaluates the same model form from the same
+published parameters (its mixtures, "A&B", and its pure fluids), so each step's stop pressure
+at (T, ρ) must agree to the solvers' round-off. Every check below names CoolProp HEOS beside it.
+"""
+
+from __future__ import annotations
+
+import itertools
+import json
+import math
+import subprocess
+import sys
+from functools import cache
+from pathlib import Path
+from types import SimpleNamespace
+
+import CoolProp.CoolProp as CP
+import numpy as np
+import pytest
+
+import fillcheck
+from fillcheck.assess.blend import (
+    blend_cautions,
+    blend_findings,
+    blend_recipe,
+    pressure_jacobian,
+    weighing_jacobian,
+)
+from fillcheck.errors import InputError
+from fillcheck.fluids.catalog import lookup
+from fillcheck.scenario.blend_input import BlendInput, ResidualInput
+from fillcheck.scenario.resolve import load_scenario
+
+P_ATM = 101_325.0
+BAR = 1e5
+V = 0.050  # m³
+CP_NAME = {
+    "nitrogen": "Nitrogen",
+    "carbon dioxide": "CarbonDioxide",
+    "argon": "Argon",
+    "oxygen": "Oxygen",
+    "helium": "Helium",
+}
+
+
+def _blend(order=None, T=288.15, residual=None, tare=None, scale=0.010, gauge=0.01):
+    return BlendInput(order, T, tare, residual, scale, gauge, False, False)
+
+
+def _vessel(fluid, blend, T_cold=None):
+    """The few fields of a VesselInput a recipe reads."""
+    return SimpleNamespace(
+        fluid=fluid,
+        water_capacity_m3=V,
+        blend=blend,
+        min_temperature_K=T_cold,
+        atmospheric_pressure_Pa=P_ATM,
+    )
+
+
+@cache
+def _pr_name(name: str) -> str:
+    """Register the catalog gas in CoolProp's cubic library with the catalog's Tc, Pc, ω and
+    molar mass under a name of this module's own; the name for AbstractState("PR", ...)."""
+    d = lookup(name)
+    ident = "FILLCHECK_BLEND_" + name.replace(" ", "_").upper()
+    entry = {
+        "name": ident,
+        "CAS": "fillcheck-blend-" + name.replace(" ", "-"),
+        "aliases": [],
+        "Tc": d.critical_temperature_K,
+        "Tc_units": "K",
+        "pc": d.critical_pressure_Pa,
+        "pc_units": "Pa",
+        "acentric": d.acentric_factor,
+        "molemass": d.molar_mass_kg_mol,
+        "molemass_units": "kg/mol",
+    }
+    CP.add_fluids_as_JSON("PR", json.dumps([entry]))
+    return ident
+
+
+def _heos(names, z, backend: str = "HEOS") -> CP.AbstractState:
+    """CoolProp 8.0.0 HEOS, a mixture (GERG-2008 form) or a pure fluid's reference equation;
+    or, with backend "PR", CoolProp's Peng–Robinson given the catalog's constants and kij = 0
+    (what fillcheck uses where no kij is published)."""
+    if backend == "PR":
+        AS = CP.AbstractState("PR", "&".join(_pr_name(n) for n in names))
+    else:
+        AS = CP.AbstractState("HEOS", "&".join(CP_NAME[n] for n in names))
+    if len(names) > 1:
+        if backend == "PR":
+            AS.set_binary_interaction_double(0, 1, "kij", 0.0)
+        AS.set_mole_fractions(list(z))
+    return AS
+
+
+def _heos_charge(names, z, T, P, backend: str = "HEOS") -> float:
+    """Total amount [mol] of the mixture in V at (T, P), by CoolProp 8.0.0 HEOS (PT flash)."""
+    AS = _heos(names, z, backend)
+    AS.update(CP.PT_INPUTS, P, T)
+    return AS.rhomolar() * V
+
+
+def _heos_pressure(amounts: dict[str, float], T: float, backend: str = "HEOS") -> float:
+    """Pressure [Pa] of these amounts [mol] in V at T by CoolProp 8.0.0 HEOS (DmolarT)."""
+    names = [n for n, a in amounts.items() if a > 0.0]
+    n = np.array([amounts[k] for k in names])
+    AS = _heos(names, n / n.sum(), backend)
+    AS.update(CP.DmolarT_INPUTS, n.sum() / V, T)
+    return AS.p()
+
+
+# (composition by mole, order, blend temperature [K], final pressure [Pa abs], model)
+# helium–oxygen has no published multi-fluid pair in fillcheck: its default is
+# Peng–Robinson–Péneloux with kij = 0; CoolProp has no translated PR mixture, so the check runs
+# the untranslated "pr" of the same family against CoolProp 8.0.0's "PR" backend given the
+# catalog's constants (the gas constants differ by 2e-11).
+CASES = [
+    ({"nitrogen": 0.786, "carbon dioxide": 0.214}, ("carbon dioxide", "nitrogen"), 288.15, 201e5),
+    ({"argon": 0.82, "carbon dioxide": 0.18}, ("carbon dioxide", "argon"), 293.15, 180e5),
+    ({"argon": 0.98, "oxygen": 0.02}, ("oxygen", "argon"), 288.15, 201e5),
+    ({"helium": 0.79, "oxygen": 0.21}, ("oxygen", "helium"), 288.15, 200e5, "pr"),
+    (
+        {"argon": 0.90, "carbon dioxide": 0.08, "oxygen": 0.02},
+        ("carbon dioxide", "oxygen", "argon"),
+        288.15,
+        200e5,
+    ),
+]
+
+
+@pytest.mark.parametrize("case", CASES, ids=lambda c: "-".join(c[0]))
+def test_each_step_stop_pressure_against_coolprop_heos(case) -> None:
+    """Source: CoolProp 8.0.0 HEOS (GERG-2008 mixtures, reference equations for one gas), or
+    CoolProp 8.0.0 PR for helium–oxygen (see CASES)."""
+    comp, order, T, P = case[:4]
+    model = case[4] if len(case) > 4 else None
+    backend, tol = ("PR", 1e-7) if model == "pr" else ("HEOS", 2e-6)
+    f = fillcheck.mixture(comp, model=model)
+    assert f.model == (model or "reference")
+    names = list(comp)
+    n_tot = _heos_charge(names, f.z, T, P, backend)
+    target = dict(zip(names, n_tot * f.z, strict=True))
+    mass = float(n_tot * f.molar_mass)
+    r = blend_recipe(_vessel(f, _blend(order, T)), mass)
+    assert r.error is None and [s.component for s in r.steps] == list(order)
+    for k, s in enumerate(r.steps, start=1):
+        amounts = {c: (target[c] if c in order[:k] else 0.0) for c in names}
+        ref = _heos_pressure(amounts, T, backend)
+        assert s.stop_pressure_Pa == pytest.approx(ref, rel=tol), (k, s.component)
+        # Dalton: the ideal-gas partial-pressure recipe stops at the amount's share of P_final
+        share = sum(amounts.values()) / n_tot
+        assert s.ideal_stop_pressure_Pa == pytest.approx(share * P, rel=tol)
+    assert r.steps[-1].stop_pressure_Pa == pytest.approx(P, rel=tol)
+
+
+def test_low_pressure_steps_tend_to_the_ideal_gas() -> None:
+    """Ideal-gas limit: each step's P/(n·R·T/V) − 1 (R: CODATA 2018, exact) is the second
+    virial term, proportional to the density, so it shrinks tenfold with the charge and is
+    below 0.5 % at 2 bar; the real and the partial-pressure stop pressures meet there."""
+    f = fillcheck.mixture({"nitrogen": 0.7, "carbon dioxide": 0.3})
+    T, R = 293.15, 8.314462618
+    dev = []
+    for P in (2e5, 0.2e5):
+        n_tot = P * V / (R * T)
+        r = blend_recipe(
+            _vessel(f, _blend(("carbon dioxide", "nitrogen"), T)), n_tot * f.molar_mass
+        )
+        ideal = [n_tot * f.z[1] * R * T / V, P]
+        d = [s.stop_pressure_Pa / i - 1.0 for s, i in zip(r.steps, ideal, strict=True)]
+        assert all(-5e-3 < x < 0.0 for x in d)  # attraction lowers it
+        assert r.steps[0].ideal_stop_pressure_Pa == pytest.approx(
+            r.steps[0].stop_pressure_Pa, rel=5e-3
+        )
+        dev.append(d)
+    for big, small in zip(*dev, strict=True):
+        assert big / small == pytest.approx(10.0, rel=0.02)
+
+
+def test_mass_balance_is_exact_with_residual_and_tare() -> None:
+    """Residual 3 bara of the target mixture at 20 °C (amount by CoolProp 8.0.0 HEOS): the
+    added masses plus the residual are the charge, each step's scale reading the tare plus
+    the contents."""
+    f = fillcheck.mixture({"argon": 0.98, "oxygen": 0.02})
+    res = ResidualInput(3e5, 293.15, None)
+    tare, charge = 58.5, 17.8
+    r = blend_recipe(_vessel(f, _blend(("oxygen", "argon"), 293.15, res, tare)), charge)
+    n_res = _heos_charge(["argon", "oxygen"], f.z, 293.15, 3e5)
+    assert r.residual_mass_kg == pytest.approx(n_res * f.molar_mass, rel=1e-6)
+    added = sum(s.added_mass_kg for s in r.steps)
+    assert added + r.residual_mass_kg == pytest.approx(charge, rel=1e-12)
+    assert r.steps[-1].cumulative_mass_kg == pytest.approx(charge, rel=1e-12)
+    readings = [tare + r.residual_mass_kg] + [s.scale_reading_kg for s in r.steps]
+    for k, s in enumerate(r.steps):
+        assert readings[k + 1] - readings[k] == pytest.approx(s.added_mass_kg, abs=1e-9)
+    # a residual of one component counts for that component only
+    r2 = blend_recipe(
+        _vessel(f, _blend(("oxygen", "argon"), 293.15, ResidualInput(3e5, 293.15, "argon"))),
+        charge,
+    )
+    assert r2.residual_masses_kg["oxygen"] == 0.0
+    assert sum(s.added_mass_kg for s in r2.steps) + r2.residual_mass_kg == pytest.approx(charge)
+
+
+def test_beverage_gas_co2_first_check_values() -> None:
+    """Fillcheck issue 14's check values: nitrogen–carbon dioxide 70/30 by mass to 200 barg at
+    15 °C, carbon dioxide first: the CO2 step stops at about 34.3 barg by the real gas and at
+    about 42.1 barg by an ideal-gas partial-pressure recipe. Computed here with CoolProp 8.0.0
+    HEOS (GERG-2008 mixture for the charge, Span–Wagner CO2 for the first step)."""
+    f = fillcheck.mixture({"nitrogen": 0.7, "carbon dioxide": 0.3}, basis="mass")
+    T, P = 288.15, 200e5 + P_ATM
+    n_tot = _heos_charge(["nitrogen", "carbon dioxide"], f.z, T, P)
+    n_co2 = n_tot * f.z[1]
+    real = _heos_pressure({"carbon dioxide": n_co2}, T)
+    ideal = f.z[1] * P
+    assert (real - P_ATM) / BAR == pytest.approx(34.3, abs=0.05)
+    assert (ideal - P_ATM) / BAR == pytest.approx(42.1, abs=0.05)
+    r = blend_recipe(_vessel(f, _blend(("carbon dioxide", "nitrogen"), T)), n_tot * f.molar_mass)
+    assert r.steps[0].stop_pressure_Pa == pytest.approx(real, rel=2e-6)
+    assert r.steps[0].ideal_stop_pressure_Pa == pytest.approx(ideal, rel=2e-6)
+    assert not any(s.liquid_present for s in r.steps)
+    assert blend_findings(r) == []
+
+
+def test_co2_first_at_5_degC_condenses_and_nitrogen_first_does_not() -> None:
+    """60/40 by mass to 200 barg (charge by CoolProp 8.0.0 HEOS at 15 °C), blended at 5 °C:
+    the carbon dioxide alone lies between its saturated vapour and liquid densities at 5 °C
+    (CoolProp 8.0.0 HEOS, Span–Wagner, QT_INPUTS), so the first step condenses."""
+    f = fillcheck.mixture({"nitrogen": 0.6, "carbon dioxide": 0.4}, basis="mass")
+    n_tot = _heos_charge(["nitrogen", "carbon dioxide"], f.z, 288.15, 200e5 + P_ATM)
+    rho_co2 = n_tot * f.z[1] / V
+    sat = CP.AbstractState("HEOS", "CarbonDioxide")
+    sat.update(CP.QT_INPUTS, 1.0, 278.15)
+    rho_v = sat.rhomolar()
+    sat.update(CP.QT_INPUTS, 0.0, 278.15)
+    assert rho_v < rho_co2 < sat.rhomolar()
+    r = blend_recipe(
+        _vessel(f, _blend(("carbon dioxide", "nitrogen"), 278.15)), n_tot * f.molar_mass
+    )
+    assert r.steps[0].liquid_present and not r.steps[1].liquid_present
+    assert r.suggested_order == ("nitrogen", "carbon dioxide")
+    codes = [(x.code, x.severity, x.data["step"]) for x in blend_findings(r)]
+    assert ("blend-step-condenses", "fail", 1) in codes
+    assert r.u_by_pressure is None  # a pressure cannot tell the amount where liquid is in
+    # with no order entered, the suggested one is used and nothing condenses
+    r2 = blend_recipe(_vessel(f, _blend(None, 278.15)), n_tot * f.molar_mass)
+    assert r2.order == ("nitrogen", "carbon dioxide") and blend_findings(r2) == []
+
+
+def test_condensing_only_in_the_cold_warns() -> None:
+    """70/30 CO2 first, blend at 15 °C, storage down to −10 °C: CO2 alone at the step's density
+    is below its saturated vapour density at 15 °C and above it at −10 °C (CoolProp 8.0.0 HEOS,
+    Span–Wagner, QT_INPUTS): a warning, not a fail."""
+    f = fillcheck.mixture({"nitrogen": 0.7, "carbon dioxide": 0.3}, basis="mass")
+    n_tot = _heos_charge(["nitrogen", "carbon dioxide"], f.z, 288.15, 200e5 + P_ATM)
+    rho_co2 = n_tot * f.z[1] / V
+    sat = CP.AbstractState("HEOS", "CarbonDioxide")
+    sat.update(CP.QT_INPUTS, 1.0, 288.15)
+    assert rho_co2 < sat.rhomolar()
+    sat.update(CP.QT_INPUTS, 1.0, 263.15)
+    assert rho_co2 > sat.rhomolar()
+    r = blend_recipe(
+        _vessel(f, _blend(("carbon dioxide", "nitrogen"), 288.15), T_cold=263.15),
+        n_tot * f.molar_mass,
+    )
+    found = {(x.code, x.severity) for x in blend_findings(r)}
+    assert found == {("blend-step-condenses-cold", "warning")}
+    assert r.suggested_order == ("nitrogen", "carbon dioxide")
+
+
+def _x(N: np.ndarray) -> np.ndarray:
+    return N / N.sum()
+
+
+def test_weighing_tolerance_against_finite_differences() -> None:
+    """∂x/∂R of the mole fractions by the scale readings against central differences of
+    x = (m/M)/Σ(m/M) written out here (the composition law, nothing of fillcheck's)."""
+    M = np.array([0.039948, 0.0319988, 0.0440095])  # argon, oxygen, CO2 [kg/mol]
+    res = np.array([0.5, 0.01, 0.04])  # residual [mol]
+    steps_of = [3, 2, 1]  # CO2 first, then oxygen, then argon
+    readings = np.array([60.0, 60.7, 61.0, 78.0])  # R_0 … R_3 [kg]
+
+    def N_of(R):
+        N = res.copy()
+        for i, s in enumerate(steps_of):
+            N[i] += (R[s] - R[s - 1]) / M[i]
+        return N
+
+    J = weighing_jacobian(N_of(readings), steps_of, M)
+    h = 1e-6
+    for k in range(4):
+        e = np.zeros(4)
+        e[k] = h
+        fd = (_x(N_of(readings + e)) - _x(N_of(readings - e))) / (2 * h)
+        assert J[:, k] == pytest.approx(fd, rel=1e-6, abs=1e-9)
+
+
+def test_pressure_tolerance_against_finite_differences_of_coolprop() -> None:
+    """u(x) by the gauge: fillcheck's propagation against central differences of the amounts
+    V·ρ(T, P_k; z_k) inverted by CoolProp 8.0.0 HEOS (PT_INPUTS) at each step's own
+    composition, with u(P_k) = a·(P_k − P_atm)/√3."""
+    comp = {"argon": 0.90, "carbon dioxide": 0.08, "oxygen": 0.02}
+    order = ("carbon dioxide", "oxygen", "argon")
+    T = 288.15
+    f = fillcheck.mixture(comp)
+    names = list(comp)
+    n_tot = _heos_charge(names, f.z, T, 200e5)
+    target = dict(zip(names, n_tot * f.z, strict=True))
+    r = blend_recipe(_vessel(f, _blend(order, T, gauge=0.01)), n_tot * f.molar_mass)
+    P = np.array([s.stop_pressure_Pa for s in r.steps])
+    zs = []
+    for k in range(3):
+        a = {c: (target[c] if c in order[: k + 1] else 0.0) for c in names}
+        zs.append(a)
+
+    def amounts(Ps):
+        ntot = []
+        for k, a in enumerate(zs):
+            present = [c for c in names if a[c] > 0]
+            n = np.array([a[c] for c in present])
+            AS = _heos(present, n / n.sum())
+            AS.update(CP.PT_INPUTS, Ps[k], T)
+            ntot.append(AS.rhomolar() * V)
+        N = {}
+        for k, c in enumerate(order):
+            N[c] = ntot[k] - (ntot[k - 1] if k else 0.0)
+        return np.array([N[c] for c in names])
+
+    u_P = 0.01 * (P - P_ATM) / math.sqrt(3.0)
+    var = np.zeros(3)
+    for k in range(3):
+        h = P[k] * 1e-6
+        e = np.zeros(3)
+        e[k] = h
+        d = (_x(amounts(P + e)) - _x(amounts(P - e))) / (2 * h)
+        var += (d * u_P[k]) ** 2
+    u_ref = np.sqrt(var)
+    got = np.array([r.u_by_pressure[c] for c in names])
+    assert got == pytest.approx(u_ref, rel=1e-3)
+    # a scale reading's resolution: r/√12 (GUM F.2.2.1), each step's mass from two readings
+    assert r.u_by_weight["carbon dioxide"] > 0.0
+
+
+def test_pressure_jacobian_sums_to_zero() -> None:
+    """Mole fractions sum to one, so each column of ∂x/∂P sums to zero (identity)."""
+    J = pressure_jacobian([2, 1], np.array([1e-3, 2e-3]), np.array([3.0, 1.0]))
+    assert J.sum(axis=0) == pytest.approx(0.0, abs=1e-15)
+    assert J[0, 1] != 0.0
+
+
+def test_blending_cautions() -> None:
+    """Oxygen in the blend: the oxygen-service caution; methane (flammable) after oxygen
+    (oxidizing): the flammable-into-oxidizer caution, which methane first does not earn
+    (hazard classes from the catalog)."""
+    f = fillcheck.mixture({"methane": 0.05, "oxygen": 0.95})
+    codes = [c.code for c in blend_cautions(f, ("oxygen", "methane"))]
+    assert codes == ["blend-oxidizer-compression", "blend-flammable-into-oxidizer"]
+    codes = [c.code for c in blend_cautions(f, ("methane", "oxygen"))]
+    assert codes == ["blend-oxidizer-compression"]
+    f2 = fillcheck.mixture({"nitrogen": 0.7, "carbon dioxide": 0.3})
+    assert blend_cautions(f2, ("carbon dioxide", "nitrogen")) == []
+
+
+BASE = """
+[[vessel]]
+id = "B-1"
+gas = {gas}
+water_capacity = "50 L"
+fill = {{ settled_pressure = "200 barg", temperature = "15 degC" }}
+storage = {{ max_temperature = "50 degC" }}
+limits = {{ allowable_pressure = "300 barg" }}
+
+[vessel.blend]
+{blend}
+"""
+MIX = '{ nitrogen = "70 %", "carbon dioxide" = "30 %" }'
+
+
+@pytest.mark.parametrize(
+    ("gas", "blend", "field", "says"),
+    [
+        (
+            MIX,
+            'order = ["carbon dioxide", "argon"]\ntemperature = "15 degC"',
+            "blend.order",
+            "argon",
+        ),
+        (
+            MIX,
+            'order = ["carbon dioxide"]\ntemperature = "15 degC"',
+            "blend.order",
+            "leaves out nitrogen",
+        ),
+        ('"nitrogen"', 'temperature = "15 degC"', "blend", "single gas"),
+        (MIX, 'temperature = "0 K"', "blend.temperature", "absolute zero"),
+        (MIX, 'temperature = "-300 degC"', "blend.temperature", ""),
+    ],
+    ids=["unknown", "missing", "pure", "zero", "below-zero"],
+)
+def test_bad_blend_input_is_one_sentence(tmp_path, gas, blend, field, says) -> None:
+    p = tmp_path / "bad.toml"
+    p.write_text(BASE.format(gas=gas, blend=blend))
+    with pytest.raises(InputError) as e:
+        load_scenario(p)
+    msg = str(e.value)
+    assert msg.startswith("bad.toml: vessel 'B-1', field '" + field + "'"), msg
+    assert says in msg and "\n" not in msg
+
+
+DEMO = Path(__file__).resolve().parents[1] / "scenarios" / "blend_beverage_gas_shop.toml"
+
+
+def test_cli_fails_a_condensing_step_and_refuses_bad_input(tmp_path) -> None:
+    """The demo's 60/40 CO2-first blend at 5 °C condenses (exit 1, JSON blend key); bad input
+    exits 2 with one line on stderr."""
+    text = DEMO.read_text()
+    one = tmp_path / "one.toml"  # the demo's condensing vessel alone (a quicker run)
+    start = text.index('[[vessel]]\nid = "BEV-6040')
+    end = text.index("[[vessel]]", start + 1)
+    one.write_text(text[: text.index("[[vessel]]")] + text[start:end])
+    run = subprocess.run(
+        [sys.executable, "-m", "fillcheck", "check", str(one), "--json"],
+        capture_output=True,
+        text=True,
+        timeout=120,
+    )
+    assert run.returncode == 1, run.stderr
+    import json
+
+    out = {v["id"]: v for v in json.loads(run.stdout)["vessels"]}
+    cold = out["BEV-6040-CO2-FIRST-COLD"]
+    assert "blend-step-condenses" in {f["code"] for f in cold["findings"]}
+    assert cold["verdict"] == "fail"
+    assert [s["liquid_present"] for s in cold["blend"]["steps"]] == [True, False]
+    assert set(cold["blend"]["steps"][0]) >= {
+        "component",
+        "added_mass_kg",
+        "cumulative_mass_kg",
+        "stop_pressure_Pa",
+        "ideal_stop_pressure_Pa",
+        "liquid_present",
+    }
+    p = tmp_path / "bad.toml"
+    p.write_text(BASE.format(gas=MIX, blend='order = ["nitrogen"]\ntemperature = "15 degC"'))
+    bad = subprocess.run(
+        [sys.executable, "-m", "fillcheck", "check", str(p)],
+        capture_output=True,
+        text=True,
+        timeout=60,
+    )
+    assert bad.returncode == 2
+    assert bad.stderr.strip().count("\n") == 0 and "blend.order" in bad.stderr
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("T", [263.15, 278.15, 293.15, 308.15])
+def test_every_order_of_a_ternary_against_coolprop(T) -> None:
+    """Every order of argon–CO2–oxygen at four blend temperatures: each step's stop pressure
+    against CoolProp 8.0.0 HEOS where it is one phase."""
+    comp = {"argon": 0.80, "carbon dioxide": 0.15, "oxygen": 0.05}
+    f = fillcheck.mixture(comp)
+    names = list(comp)
+    n_tot = _heos_charge(names, f.z, 288.15, 200e5)
+    target = dict(zip(names, n_tot * f.z, strict=True))
+    for order in itertools.permutations(names):
+        r = blend_recipe(_vessel(f, _blend(order, T)), n_tot * f.molar_mass)
+        for k, s in enumerate(r.steps, start=1):
+            if s.liquid_present:
+                continue
+            amounts = {c: (target[c] if c in order[:k] else 0.0) for c in names}
+            assert s.stop_pressure_Pa == pytest.approx(_heos_pressure(amounts, T), rel=2e-6)
+
+
+def test_step_beyond_the_model_range_asks_for_review() -> None:
+    """Argon–oxygen blended to 450 bar at 15 °C (charge by CoolProp 8.0.0 HEOS) lies above
+    the 35 MPa normal range of the GERG-2008 form (Kunz, Wagner 2012): review, no pass."""
+    f = fillcheck.mixture({"argon": 0.98, "oxygen": 0.02})
+    n_tot = _heos_charge(["argon", "oxygen"], f.z, 288.15, 450e5)
+    r = blend_recipe(_vessel(f, _blend(("oxygen", "argon"), 288.15)), n_tot * f.molar_mass)
+    found = [(x.code, x.severity, x.data["step"]) for x in blend_findings(r)]
+    assert found == [("blend-outside-model-range", "review", 2)]
