@@ -24,6 +24,8 @@ import pytest
 
 import fillcheck
 from fillcheck.assess.blend import (
+    BLEND_PLAN_LIMIT,
+    blend_bounded_plan,
     blend_cautions,
     blend_findings,
     blend_recipe,
@@ -484,3 +486,44 @@ def test_step_beyond_the_model_range_asks_for_review() -> None:
     r = blend_recipe(_vessel(f, _blend(("oxygen", "argon"), 288.15)), n_tot * f.molar_mass)
     found = [(x.code, x.severity, x.data["step"]) for x in blend_findings(r)]
     assert found == [("blend-outside-model-range", "review", 2)]
+
+
+def test_a_blend_bounds_the_plan_where_a_step_would_condense(tmp_path) -> None:
+    """60/40 by mass, carbon dioxide first at 5 °C: the 200 barg charge condenses in its first
+    step, so the plan is the largest charge whose carbon dioxide alone stays below its saturated
+    vapour density at 5 °C (CoolProp 8.0.0 HEOS, Span–Wagner, QT_INPUTS); the demo's vessel
+    filled by weight to that plan keeps every step gas (a plan followed passes its blend)."""
+    f = fillcheck.mixture({"nitrogen": 0.6, "carbon dioxide": 0.4}, basis="mass")
+    v = _vessel(f, _blend(("carbon dioxide", "nitrogen"), 278.15))
+    full = _heos_charge(["nitrogen", "carbon dioxide"], f.z, 288.15, 200e5 + P_ATM)
+    full_kg = full * f.molar_mass
+    plan = blend_bounded_plan(v, full_kg, 0.01)
+    assert plan is not None and plan < full_kg
+    sat = CP.AbstractState("HEOS", "CarbonDioxide")
+    sat.update(CP.QT_INPUTS, 1.0, 278.15)
+    rho_v = sat.rhomass()
+    w_co2 = 0.4  # mass fraction
+    assert w_co2 * plan / V < rho_v <= w_co2 * (plan + 0.02) / V
+    assert blend_bounded_plan(v, plan, 0.01) == plan  # already within: unchanged
+    # the whole check: the plan governs, and the vessel filled to it passes its blend
+    from fillcheck.assess import assess_scenario
+    from fillcheck.scenario.resolve import load_scenario
+
+    text = DEMO.read_text()
+    start = text.index('[[vessel]]\nid = "BEV-6040')
+    end = text.index("[[vessel]]", start + 1)
+    one = tmp_path / "one.toml"
+    one.write_text(text[: text.index("[[vessel]]")] + text[start:end])
+    a = assess_scenario(load_scenario(str(one))).vessels[0]
+    assert a.governing_limit == BLEND_PLAN_LIMIT
+    assert a.max_safe_charge_kg == pytest.approx(plan, abs=0.011)
+    followed = tmp_path / "followed.toml"
+    followed.write_text(
+        one.read_text().replace(
+            'fill = { settled_pressure = "200 barg", temperature = "15 degC" }',
+            f'fill = {{ mass = "{a.max_safe_charge_kg:.2f} kg", temperature = "15 degC" }}',
+        )
+    )
+    b = assess_scenario(load_scenario(str(followed))).vessels[0]
+    assert not {x.code for x in b.findings} & {"blend-step-condenses"}
+    assert b.verdict != "fail"

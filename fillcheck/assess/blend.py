@@ -385,3 +385,37 @@ def blend_findings(r: BlendRecipe) -> list[Finding]:
                 )
             )
     return out
+
+
+BLEND_PLAN_LIMIT = "the blend recipe (every step gas at the blend temperature)"
+"""The name of the limit a blend puts on the plan, as reports show it."""
+
+_PLAN_BISECTIONS = 14
+"""Halvings of the charge bracket when the blend bounds the plan (2⁻¹⁴ of the plan: about a
+gram in 20 kg, below PLAN_RESOLUTION_KG)."""
+
+
+def _blend_fails(v: Any, charge_kg: float) -> bool:
+    """True where the recipe for ``charge_kg`` [kg] cannot be computed or a step holds liquid at
+    the blend temperature (the ``blend-step-condenses`` failure)."""
+    r = blend_recipe(v, charge_kg)
+    return r.error is not None or any(s.liquid_present for s in r.steps)
+
+
+def blend_bounded_plan(v: Any, plan_kg: float | None, resolution_kg: float) -> float | None:
+    """The largest charge [kg] not above ``plan_kg`` whose recipe keeps every step gas at the
+    blend temperature, rounded down to ``resolution_kg``; None where no charge does.
+
+    A step condenses once its contents are denser than their dew density, so the failing
+    charges lie above one bound; the bound is found by bisection, and the charge returned is
+    one that was itself computed not to condense (a plan followed keeps its blend)."""
+    if plan_kg is None or not _blend_fails(v, plan_kg):
+        return plan_kg
+    lo, hi = 0.0, plan_kg
+    for _ in range(_PLAN_BISECTIONS):
+        mid = 0.5 * (lo + hi)
+        lo, hi = (mid, hi) if not _blend_fails(v, mid) else (lo, mid)
+    out = math.floor(lo / resolution_kg) * resolution_kg
+    if out <= 0.0 or _blend_fails(v, out):
+        return None
+    return out
