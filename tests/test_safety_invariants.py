@@ -61,6 +61,7 @@ rule was 'review' when followed; a charge near the critical density could not be
 from __future__ import annotations
 
 import math
+import os
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -722,7 +723,11 @@ def _default(n: int) -> Any:
 
 
 def _slow(n: int) -> Any:
-    return settings(max_examples=n, derandomize=False, **COMMON)
+    """The slow sweep's share ``n`` of the 10,000 scenarios, or one shard of it: with
+    ``FILLCHECK_SWEEP_SHARDS=S`` each run draws ⌈n/S⌉, and ``--hypothesis-seed=k`` makes shard k
+    its own draw (tools/slow_sweep.py runs the shards and keeps the tally)."""
+    shards = max(1, int(os.environ.get("FILLCHECK_SWEEP_SHARDS", "1")))
+    return settings(max_examples=math.ceil(n / shards), derandomize=False, **COMMON)
 
 
 def _batch_fractions() -> st.SearchStrategy[list[float]]:
