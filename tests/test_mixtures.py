@@ -32,16 +32,15 @@ Tests marked xfail(strict=True) record defects of fillcheck found here (see thei
 
 from __future__ import annotations
 
-import json
 from collections.abc import Sequence
 from functools import cache
 
 import CoolProp.CoolProp as CP
 import numpy as np
 import pytest
+from coolprop_cubic import coolprop_pr_name
 
 import fillcheck
-from fillcheck.fluids.catalog import lookup
 from fillcheck.fluids.mixing import cubic_kij
 from fillcheck.models.cubic import R_CUBIC, CubicComponent
 from fillcheck.models.cubic_mixture import CubicMixture
@@ -247,28 +246,6 @@ def test_pr_fugacity_matches_coolprop_pr_with_equal_constants(pair: tuple[str, s
     assert evaluated >= 20  # of 36 states (stretched liquids at 200 K are skipped)
 
 
-@cache
-def _coolprop_pr_with_catalog_constants(name: str) -> str:
-    """Register the catalog gas in CoolProp's cubic library under a fillcheck-only name, with the
-    catalog's Tc, Pc, ω and molar mass; returns the name to use in AbstractState("PR", ...)."""
-    d = lookup(name)
-    ident = "FILLCHECK_TEST_" + name.replace(" ", "_").replace("-", "_").upper()
-    entry = {
-        "name": ident,
-        "CAS": "fillcheck-test-" + name.replace(" ", "-"),
-        "aliases": [],
-        "Tc": d.critical_temperature_K,
-        "Tc_units": "K",
-        "pc": d.critical_pressure_Pa,
-        "pc_units": "Pa",
-        "acentric": d.acentric_factor,
-        "molemass": d.molar_mass_kg_mol,
-        "molemass_units": "kg/mol",
-    }
-    CP.add_fluids_as_JSON("PR", json.dumps([entry]))
-    return ident
-
-
 #: Peng–Robinson states (gas side, compressed liquid), chosen single-phase; the reference imposes
 #: the phase (CoolProp's unimposed PR flash returns the liquid root of propane 60 % + n-butane
 #: 40 % at 338.15 K, 1 bar: 9205 mol/m³, where the ideal gas gives 35.6).
@@ -298,7 +275,7 @@ def test_pr_density_matches_coolprop_pr(case) -> None:
     comp, gas, liquid = case
     names = [n for n, _ in comp]
     f = _mix(comp, "pr")
-    AS = CP.AbstractState("PR", "&".join(_coolprop_pr_with_catalog_constants(n) for n in names))
+    AS = CP.AbstractState("PR", "&".join(coolprop_pr_name(n) for n in names))
     AS.set_binary_interaction_double(0, 1, "kij", _kij(*names))
     AS.set_mole_fractions([x for _, x in comp])
     states = [(T, P, False) for T, P in gas] + [(T, P, True) for T, P in liquid]
