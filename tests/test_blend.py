@@ -14,13 +14,13 @@ import json
 import math
 import subprocess
 import sys
-from functools import cache
 from pathlib import Path
 from types import SimpleNamespace
 
 import CoolProp.CoolProp as CP
 import numpy as np
 import pytest
+from coolprop_cubic import coolprop_pr_name
 
 import fillcheck
 from fillcheck.assess.blend import (
@@ -33,7 +33,6 @@ from fillcheck.assess.blend import (
     weighing_jacobian,
 )
 from fillcheck.errors import InputError
-from fillcheck.fluids.catalog import lookup
 from fillcheck.scenario.blend_input import BlendInput, ResidualInput
 from fillcheck.scenario.resolve import load_scenario
 
@@ -64,34 +63,12 @@ def _vessel(fluid, blend, T_cold=None):
     )
 
 
-@cache
-def _pr_name(name: str) -> str:
-    """Register the catalog gas in CoolProp's cubic library with the catalog's Tc, Pc, ω and
-    molar mass under a name of this module's own; the name for AbstractState("PR", ...)."""
-    d = lookup(name)
-    ident = "FILLCHECK_BLEND_" + name.replace(" ", "_").upper()
-    entry = {
-        "name": ident,
-        "CAS": "fillcheck-blend-" + name.replace(" ", "-"),
-        "aliases": [],
-        "Tc": d.critical_temperature_K,
-        "Tc_units": "K",
-        "pc": d.critical_pressure_Pa,
-        "pc_units": "Pa",
-        "acentric": d.acentric_factor,
-        "molemass": d.molar_mass_kg_mol,
-        "molemass_units": "kg/mol",
-    }
-    CP.add_fluids_as_JSON("PR", json.dumps([entry]))
-    return ident
-
-
 def _heos(names, z, backend: str = "HEOS") -> CP.AbstractState:
     """CoolProp 8.0.0 HEOS, a mixture (GERG-2008 form) or a pure fluid's reference equation;
     or, with backend "PR", CoolProp's Peng–Robinson given the catalog's constants and kij = 0
     (what fillcheck uses where no kij is published)."""
     if backend == "PR":
-        AS = CP.AbstractState("PR", "&".join(_pr_name(n) for n in names))
+        AS = CP.AbstractState("PR", "&".join(coolprop_pr_name(n) for n in names))
     else:
         AS = CP.AbstractState("HEOS", "&".join(CP_NAME[n] for n in names))
     if len(names) > 1:
@@ -432,7 +409,6 @@ def test_cli_fails_a_condensing_step_and_refuses_bad_input(tmp_path) -> None:
         timeout=120,
     )
     assert run.returncode == 1, run.stderr
-    import json
 
     out = {v["id"]: v for v in json.loads(run.stdout)["vessels"]}
     cold = out["BEV-6040-CO2-FIRST-COLD"]
@@ -527,3 +503,60 @@ def test_a_blend_bounds_the_plan_where_a_step_would_condense(tmp_path) -> None:
     b = assess_scenario(load_scenario(str(followed))).vessels[0]
     assert not {x.code for x in b.findings} & {"blend-step-condenses"}
     assert b.verdict != "fail"
+
+
+def test_every_command_plans_the_blend_bound_charge() -> None:
+    """The blend's bound is part of the one largest-charge solver (assess.charge): `check`,
+    `stop-table` and `reading` give the same plan for the demo's carbon-dioxide-first vessel
+    at 5 °C (before, `stop-table` planned the allowable pressure's 18.18 kg while `check`
+    planned 14.32 kg). The figure itself is checked against CoolProp in the test above."""
+    from fillcheck.assess import assess_scenario
+    from fillcheck.assess.planning import read_gauge, stop_table
+    from fillcheck.scenario.resolve import load_scenario
+
+    sc = load_scenario(DEMO)
+    v = next(x for x in sc.vessels if x.id == "BEV-6040-CO2-FIRST-COLD")
+    checked = next(a for a in assess_scenario(sc).vessels if a.id == v.id)
+    assert checked.governing_limit == BLEND_PLAN_LIMIT
+    table = stop_table(v, sc.reference_temperature_K, np.array([278.15, 288.15]))
+    assert table.max_safe_charge_kg == pytest.approx(checked.max_safe_charge_kg, abs=1e-9)
+    assert table.governing_limit == BLEND_PLAN_LIMIT
+    r = read_gauge(v, sc.reference_temperature_K, 150e5, 288.15, 0.05, 2.0)
+    assert r.fraction_of_max_safe == pytest.approx(r.charge_kg / checked.max_safe_charge_kg)
+
+
+def test_register_rows_carry_a_blend(tmp_path) -> None:
+    """A register row names a mixture and its blend: columns composition_basis, blend_order
+    (components joined by '>') and blend_temperature give the same recipe as the scenario's
+    [vessel.blend] table; an order that is not one, or an order without a temperature, is
+    refused in one sentence naming row and column (exit 2)."""
+    from fillcheck.assess import assess_scenario
+    from fillcheck.scenario.register import load_register
+
+    head = (
+        "id,gas,composition_basis,water_capacity,settled_pressure,fill_temperature,"
+        "max_temperature,allowable_pressure,blend_order,blend_temperature\n"
+    )
+    row = "MIX-1,nitrogen 70 % + carbon dioxide 30 %,mass,50 L,200 barg,15 degC,50 degC,300 barg,"
+    good = tmp_path / "good.csv"
+    good.write_text(head + row + "carbon dioxide > nitrogen,15 degC\n")
+    a = assess_scenario(load_register(good)).vessels[0]
+    assert a.blend is not None
+    assert [s.component for s in a.blend.steps] == ["carbon dioxide", "nitrogen"]
+    f = fillcheck.mixture({"nitrogen": 0.7, "carbon dioxide": 0.3}, basis="mass")
+    v = _vessel(f, _blend(("carbon dioxide", "nitrogen"), 288.15))
+    ref = blend_recipe(v, a.charged_mass_kg)
+    for s, r in zip(a.blend.steps, ref.steps, strict=True):
+        assert s.stop_pressure_Pa == pytest.approx(r.stop_pressure_Pa, rel=1e-9)
+    for cells, says in (
+        ("carbon dioxide nitrogen,15 degC", "column 'blend_order'"),
+        ("carbon dioxide > nitrogen,", "column 'blend_temperature'"),
+    ):
+        bad = tmp_path / "bad.csv"
+        bad.write_text(head + row + cells + "\n")
+        run = subprocess.run(
+            [sys.executable, "-m", "fillcheck", "check", str(bad)],
+            capture_output=True, text=True, timeout=120,
+        )  # fmt: skip
+        assert run.returncode == 2, run.stderr
+        assert says in run.stderr and "row 2" in run.stderr and "Traceback" not in run.stderr

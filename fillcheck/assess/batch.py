@@ -15,13 +15,11 @@ from collections.abc import Callable, Sequence
 import numpy as np
 
 from fillcheck.assess.blend import (
-    BLEND_PLAN_LIMIT,
-    blend_bounded_plan,
     blend_findings,
     blend_recipe,
 )
 from fillcheck.assess.cautions import cautions_for, gas_facts
-from fillcheck.assess.charge import PLAN_RESOLUTION_KG, largest_safe_densities
+from fillcheck.assess.charge import largest_safe_densities
 from fillcheck.assess.checked_range import checked_ranges
 from fillcheck.assess.fill_process import fill_result, filling_findings, plan_fill_findings
 from fillcheck.assess.fill_process import limits_checked as fill_limits_checked
@@ -34,7 +32,6 @@ from fillcheck.scenario.resolve import VesselInput
 from fillcheck.thermo.bracketed import illinois
 from fillcheck.thermo.fluid import Fluid
 from fillcheck.thermo.limits import FIRE_TEMPERATURE_K, highest_temperature_K
-from fillcheck.thermo.mixture_fluid import MixtureFluid
 from fillcheck.thermo.vessel import VesselPath, saturation_crossings, vessel_path
 
 FINE_POINTS = 161
@@ -309,8 +306,6 @@ def _assess_group(vs: Sequence[VesselInput], T_ref: float, small: bool) -> list[
         a.saturation_T_K, a.saturation_P_Pa = sat_curve[j]
         # a mixture filled as a gas that only condenses in the cold is not a liquefied gas
         a.liquefied = bool(liquefied_at_ref[j]) if mixture else None
-        if mixture and v.blend is not None:  # no step of the plan's recipe may condense
-            _bound_plan_by_blend(f, v, a, float(T_fill[j]), bool(has_fill_T[j]))
         a.findings, a.limits_checked = vessel_findings(v, a, p_j)
         apply_marking(v, a, rated[j])
         if v.filling is not None:  # the fill process (assess.fill_process)
@@ -338,29 +333,6 @@ def _assess_group(vs: Sequence[VesselInput], T_ref: float, small: bool) -> list[
             a.cautions += a.blend.cautions
         results.append(a)
     return results
-
-
-def _bound_plan_by_blend(
-    f: MixtureFluid, v: VesselInput, a: VesselAssessment, T_fill: float, has_fill_T: bool
-) -> None:
-    """Lower the plan of a blended vessel to the largest charge whose recipe keeps every step
-    gas (assess.blend.blend_bounded_plan), with the stop pressure of that charge."""
-    plan = blend_bounded_plan(v, a.max_safe_charge_kg, PLAN_RESOLUTION_KG)
-    if plan == a.max_safe_charge_kg:
-        return
-    a.governing_limit = BLEND_PLAN_LIMIT
-    a.max_safe_charge_kg = plan
-    a.max_safe_fill_pressure_Pa = None
-    a.fill_by_weight = False
-    if plan is None:
-        return
-    rho = np.array([plan / (f.molar_mass * v.water_capacity_m3)])
-    st = vessel_path(f, np.array([T_fill]), rho)
-    liquid = bool(np.isin(st.phase, ("two-phase", "liquid"))[0])
-    inside = bool(f.validity.contains(np.array([T_fill]), st.P)[0])
-    a.fill_by_weight = liquid
-    if has_fill_T and inside and not liquid:
-        a.max_safe_fill_pressure_Pa = float(st.P[0])
 
 
 def _reach(

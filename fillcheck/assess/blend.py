@@ -393,6 +393,8 @@ BLEND_PLAN_LIMIT = "the blend recipe (every step gas at the blend temperature)"
 _PLAN_BISECTIONS = 14
 """Halvings of the charge bracket when the blend bounds the plan (2⁻¹⁴ of the plan: about a
 gram in 20 kg, below PLAN_RESOLUTION_KG)."""
+_PLAN_GRID = 24
+"""Charges tried at once per round of the batched search for the blend's bound."""
 
 
 def _blend_fails(v: Any, charge_kg: float) -> bool:
@@ -407,15 +409,81 @@ def blend_bounded_plan(v: Any, plan_kg: float | None, resolution_kg: float) -> f
     blend temperature, rounded down to ``resolution_kg``; None where no charge does.
 
     A step condenses once its contents are denser than their dew density, so the failing
-    charges lie above one bound; the bound is found by bisection, and the charge returned is
-    one that was itself computed not to condense (a plan followed keeps its blend)."""
+    charges lie above one bound. Without residual contents each step's composition is the same
+    for every charge, and the bound is bracketed on grids of charges evaluated together; with
+    them, by bisection. Either way the charge returned is one whose full recipe was computed
+    not to condense (a plan followed keeps its blend)."""
     if plan_kg is None or not _blend_fails(v, plan_kg):
         return plan_kg
-    lo, hi = 0.0, plan_kg
-    for _ in range(_PLAN_BISECTIONS):
-        mid = 0.5 * (lo + hi)
-        lo, hi = (mid, hi) if not _blend_fails(v, mid) else (lo, mid)
-    out = math.floor(lo / resolution_kg) * resolution_kg
-    if out <= 0.0 or _blend_fails(v, out):
+    lo = _gas_bound_batched(v, plan_kg, resolution_kg)
+    if lo is None:
+        lo, hi = 0.0, plan_kg
+        for _ in range(_PLAN_BISECTIONS):
+            mid = 0.5 * (lo + hi)
+            lo, hi = (mid, hi) if not _blend_fails(v, mid) else (lo, mid)
+    out = math.floor(lo / resolution_kg + 1e-9) * resolution_kg
+    for _ in range(3):  # the full recipe is the judge; step down where it disagrees at the edge
+        if out <= 0.0:
+            return None
+        if not _blend_fails(v, out):
+            return out
+        out -= resolution_kg
+    return None
+
+
+def _recipe_orders(v: Any) -> list[tuple[str, ...]]:
+    """The orders blend_recipe may take: the given one; or, where none is given, the preferred
+    one and (up to PERMUTED_COMPONENTS_MAX components) every other."""
+    f: MixtureFluid = v.fluid
+    preferred = v.blend.order or default_order(f)
+    if v.blend.order is not None or f.z.size > PERMUTED_COMPONENTS_MAX:
+        return [preferred]
+    return [preferred, *(p for p in itertools.permutations(f.component_names) if p != preferred)]
+
+
+def _gas_bound_batched(v: Any, plan_kg: float, resolution_kg: float) -> float | None:
+    """The largest charge [kg] of a grid search below ``plan_kg`` for which an order the recipe
+    may take keeps every step gas at the blend temperature (0.0: none); None where the search
+    does not apply (residual contents, or a state the model cannot give)."""
+    if np.any(residual_amounts(v.fluid, v.blend.residual, v.water_capacity_m3) > 0.0):
         return None
-    return out
+    lo, hi = 0.0, plan_kg
+    try:
+        for _ in range(12):
+            grid = np.linspace(lo, hi, _PLAN_GRID + 1)[1:]
+            ok = _gas_at_blend_temperature(v, grid)
+            if ok.all():  # the batched states disagree with the full recipe at the plan
+                return None
+            first = int(np.argmin(ok))
+            lo, hi = (grid[first - 1] if first > 0 else lo), grid[first]
+            if hi - lo < 0.1 * resolution_kg:
+                break
+    except FillcheckError:
+        return None
+    return lo
+
+
+def _gas_at_blend_temperature(v: Any, charges_kg: np.ndarray) -> np.ndarray:
+    """Per charge [kg] of an evacuated vessel: True where some order the recipe may take keeps
+    every step's contents gas at the blend temperature (the states of blend_recipe's steps)."""
+    f: MixtureFluid = v.fluid
+    names = list(f.component_names)
+    T = np.full(charges_kg.size, v.blend.temperature_K)
+    liquid_after: dict[frozenset[int], np.ndarray] = {}
+    ok = np.zeros(charges_kg.size, dtype=bool)
+    for order in _recipe_orders(v):
+        idx = [names.index(c) for c in order]
+        liquid = np.zeros(charges_kg.size, dtype=bool)
+        for k in range(len(idx)):
+            done = frozenset(idx[: k + 1])
+            if done not in liquid_after:
+                present = np.isin(np.arange(len(names)), sorted(done))
+                share = f.z * present  # each component's moles per mole of the full charge
+                g = _content_fluid(f, present, share)
+                rho = charges_kg / f.molar_mass * float(share.sum()) / v.water_capacity_m3
+                liquid_after[done] = np.isin(vessel_path(g, T, rho).phase, LIQUID_PHASES)
+            liquid |= liquid_after[done]
+        ok |= ~liquid
+        if ok.all():
+            break
+    return ok

@@ -146,8 +146,28 @@ def largest_safe_densities(
     if round_down:
         rho = np.array([rounded_down(r, fluid.molar_mass * x) for r, x in zip(rho, V, strict=True)])
     names = [cands[b][1] for b in best]
+    for j, v in enumerate(vs):  # a blend whose recipe would condense bounds the plan further
+        if getattr(v, "blend", None) is not None and np.isfinite(rho[j]) and rho[j] > 0:
+            rho[j], names[j] = _blend_bound(fluid, v, float(rho[j]), names[j], round_down)
     bad = ~np.isfinite(rho) | (rho <= 0)
     return np.where(bad, np.nan, rho), [None if b else nm for b, nm in zip(bad, names, strict=True)]
+
+
+def _blend_bound(
+    fluid: Fluid, v: VesselInput, rho_mol: float, name: str, round_down: bool
+) -> tuple[float, str]:
+    """The density [mol/m³] and governing limit once the blend recipe bounds the plan: the
+    largest charge not above ``rho_mol`` whose every step stays gas at the blend temperature
+    (assess.blend.blend_bounded_plan; imported here, so a pure gas never loads the blend)."""
+    from fillcheck.assess.blend import BLEND_PLAN_LIMIT, blend_bounded_plan
+
+    kg_per_density = fluid.molar_mass * v.water_capacity_m3
+    plan = rho_mol * kg_per_density
+    step = PLAN_RESOLUTION_KG if round_down else PLAN_RESOLUTION_KG / 1000.0
+    bounded = blend_bounded_plan(v, plan, step)
+    if bounded == plan:
+        return rho_mol, name
+    return (np.nan if bounded is None else bounded / kg_per_density), BLEND_PLAN_LIMIT
 
 
 def rounded_down(rho_mol: float, kg_per_density: float) -> float:
