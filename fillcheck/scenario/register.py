@@ -3,7 +3,9 @@
 Cells are the same quantity strings as in a scenario file; an empty cell is an absent value; an
 unknown column is refused by name; errors name the row and the column. A mixture's gas cell
 lists its gases with their mole fractions joined by "+", e.g.
-``argon 82 % + carbon dioxide 18 %`` or ``nitrogen 0.7 + carbon dioxide 0.3``.
+``argon 82 % + carbon dioxide 18 %`` or ``nitrogen 0.7 + carbon dioxide 0.3``; a blend's
+order (INTERFACES.md §7) lists the components in the order they go in joined by ">", e.g.
+``carbon dioxide > nitrogen``, with the blend temperature in its own column.
 """
 
 from __future__ import annotations
@@ -42,6 +44,9 @@ COLUMNS: dict[str, str] = {
     "test_pressure": "marking.test_pressure",
     "tare_mass": "marking.tare_mass",
     "area": "area",
+    "composition_basis": "composition_basis",
+    "blend_order": "blend.order",
+    "blend_temperature": "blend.temperature",
 }
 """Register column -> scenario field path."""
 REQUIRED = ("id", "gas", "water_capacity", "max_temperature", "allowable_pressure")
@@ -218,9 +223,24 @@ def row_vessel(header: list[str], row: list[str], name: str, n: int) -> dict[str
         target[path[-1]] = cell  # type: ignore[index]
     if isinstance(vessel.get("gas"), str) and "+" in str(vessel["gas"]):
         vessel["gas"] = _mixture_cell(str(vessel["gas"]), name, n)
+    blend = vessel.get("blend")
+    if isinstance(blend, dict) and "order" in blend:
+        blend["order"] = _order_cell(str(blend["order"]), name, n)
     for table in ("fill", "storage", "limits"):
         vessel.setdefault(table, {})
     return vessel
+
+
+def _order_cell(cell: str, name: str, row: int) -> list[str]:
+    """A blend order cell, the components in the order they go in joined by ">", as a list."""
+    parts = [p.strip() for p in cell.split(">")]
+    if len(parts) < 2 or not all(parts):
+        raise InputError(
+            f"{name}: row {row}, column 'blend_order': '{cell}' is not an order of components; "
+            "write the components in the order they go in joined by '>', e.g. "
+            "'carbon dioxide > nitrogen'"
+        )
+    return parts
 
 
 _PART = re.compile(r"^(?P<gas>.+?)\s+(?P<fraction>[0-9.eE+-]+\s*%?)$")
