@@ -378,8 +378,14 @@ MIX = '{ nitrogen = "70 %", "carbon dioxide" = "30 %" }'
         ('"nitrogen"', 'temperature = "15 degC"', "blend", "single gas"),
         (MIX, 'temperature = "0 K"', "blend.temperature", "absolute zero"),
         (MIX, 'temperature = "-300 degC"', "blend.temperature", ""),
+        (
+            MIX,
+            'order = ["carbon dioxide", "nitrogen"]',
+            "blend.temperature",
+            'required but missing; give it, e.g. temperature = "15 degC"',
+        ),
     ],
-    ids=["unknown", "missing", "pure", "zero", "below-zero"],
+    ids=["unknown", "missing", "pure", "zero", "below-zero", "no-temperature"],
 )
 def test_bad_blend_input_is_one_sentence(tmp_path, gas, blend, field, says) -> None:
     p = tmp_path / "bad.toml"
@@ -550,7 +556,10 @@ def test_register_rows_carry_a_blend(tmp_path) -> None:
         assert s.stop_pressure_Pa == pytest.approx(r.stop_pressure_Pa, rel=1e-9)
     for cells, says in (
         ("carbon dioxide nitrogen,15 degC", "column 'blend_order'"),
-        ("carbon dioxide > nitrogen,", "column 'blend_temperature'"),
+        (
+            "carbon dioxide > nitrogen,",
+            "column 'blend_temperature': is required but missing; give it, e.g. 15 degC",
+        ),
     ):
         bad = tmp_path / "bad.csv"
         bad.write_text(head + row + cells + "\n")

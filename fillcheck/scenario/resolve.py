@@ -911,7 +911,7 @@ def _pydantic_sentence(
     kind = err["type"]
     leaf = str(loc[-1]) if loc else ""
     if kind == "missing":
-        what = "is required but missing"
+        what = "is required but missing" + _missing_example(leaf, columns is not None)
     elif kind == "extra_forbidden":
         close = difflib.get_close_matches(leaf, _known_keys(loc), n=1, cutoff=0.6)
         hint = (
@@ -982,6 +982,44 @@ def _vessel_of(
     if columns is not None:
         vessel = f"row {idx + first_row} (vessel '{vid}'), "
     return vessel, loc[2:]
+
+
+#: What a required key's value looks like (quantity text, or a whole table), for the sentence
+#: that says it is missing; a register cell gets the value alone.
+_REQUIRED_EXAMPLES: dict[str, str] = {
+    "id": '"AR-50-001"',
+    "gas": '"argon"',
+    "water_capacity": '"50 L"',
+    "fill": '{ pressure = "200 barg", temperature = "15 degC" }',
+    "storage": '{ max_temperature = "50 degC" }',
+    "limits": '{ allowable_pressure = "300 barg" }',
+    "max_temperature": '"50 degC"',
+    "allowable_pressure": '"300 barg"',
+    "set": '"p200-compressed"',
+    "name": '"refrigerant blend X"',
+    "molar_mass": '"150.0 g/mol"',
+    "critical_temperature": '"120 degC"',
+    "critical_pressure": '"30 bara"',
+    "acentric_factor": "0.30",
+    "temperature": '"15 degC"',
+    "pressure": '"2 barg"',
+    "delivery_temperature": '"40 degC"',
+    "duration": '"4 min"',
+    "coefficient": '"10 W/(m2 K)"',
+    "area": '"0.8 m2"',
+    "volume": '"60 m3"',
+    "air_changes": '"1 /h"',
+    "rate": '"0.2 kg/h"',
+    "vessel": '"N2-50-W"',
+}
+
+
+def _missing_example(leaf: str, register: bool) -> str:
+    """'; give it, e.g. …' for a required key with a known form, else ''."""
+    ex = _REQUIRED_EXAMPLES.get(leaf)
+    if ex is None or (register and ex.startswith("{")):
+        return ""
+    return f"; give it, e.g. {ex.strip(chr(34))}" if register else f"; give it, e.g. {leaf} = {ex}"
 
 
 def _field_text(loc: list[Any]) -> str:
