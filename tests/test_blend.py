@@ -12,6 +12,7 @@ from __future__ import annotations
 import itertools
 import json
 import math
+import os
 import subprocess
 import sys
 from pathlib import Path
@@ -569,3 +570,45 @@ def test_register_rows_carry_a_blend(tmp_path) -> None:
         )  # fmt: skip
         assert run.returncode == 2, run.stderr
         assert says in run.stderr and "row 2" in run.stderr and "Traceback" not in run.stderr
+
+
+def test_register_report_prints_the_recipe_of_passing_blend_rows(tmp_path) -> None:
+    """A passing blend row of a register is not shown in detail, but the blender still needs its
+    recipe: the terminal and HTML reports list each step (add, contents, stop pressure at the
+    blend temperature, ideal-gas stop) with the numbers of the JSON ``blend`` key."""
+    from fillcheck.assess import assess_scenario
+    from fillcheck.report.content import Formatter
+    from fillcheck.scenario.register import load_register
+
+    reg = tmp_path / "blends.csv"
+    reg.write_text(
+        "id,gas,composition_basis,water_capacity,settled_pressure,fill_temperature,"
+        "max_temperature,allowable_pressure,blend_order,blend_temperature\n"
+        "MIX-1,nitrogen 70 % + carbon dioxide 30 %,mass,50 L,200 barg,15 degC,50 degC,300 barg,"
+        "carbon dioxide > nitrogen,15 degC\n"
+        "MIX-2,argon 82 % + carbon dioxide 18 %,mole,50 L,200 barg,15 degC,50 degC,300 barg,,"
+        "15 degC\n"
+    )
+    a = assess_scenario(load_register(reg))
+    assert [v.verdict for v in a.vessels] == ["pass", "pass"]
+    html = tmp_path / "blends.html"
+    run = subprocess.run(
+        [sys.executable, "-m", "fillcheck", "check", str(reg), "--html", str(html)],
+        capture_output=True, text=True, timeout=300, env={**os.environ, "COLUMNS": "160"},
+    )  # fmt: skip
+    assert run.returncode == 0, run.stderr
+    fmt = Formatter("metric", a.atmospheric_pressure_Pa)
+    text, page = run.stdout, html.read_text()
+    assert "Blend recipes of the vessels not shown in detail" in text
+    assert "MIX-2 (order suggested)" in text
+    for v in a.vessels:
+        for k, s in enumerate(v.blend.steps, start=1):
+            for shown in (
+                f"{k}: {s.component}",
+                fmt.m(s.added_mass_kg),
+                fmt.m(s.cumulative_mass_kg),
+                fmt.p(s.stop_pressure_Pa),
+                fmt.p(s.ideal_stop_pressure_Pa),
+            ):
+                assert shown in text, shown
+                assert shown in page, shown

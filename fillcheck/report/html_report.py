@@ -167,9 +167,22 @@ def _vessels_body(a: ScenarioAssessment, fmt: Formatter) -> str:
         f'<div class="chart">{margin_chart_svg(a.vessels)}</div>'
         f"<h3>{_e(SUMMARY_TITLE)}</h3><table><tr>"
         + "".join(f"<th>{_e(c)}</th>" for c in SUMMARY_COLUMNS)
-        + f"</tr>{rows}</table><h2>Failing and review vessels, worst first</h2>{note}"
+        + f"</tr>{rows}</table>{_register_blends(a.vessels, shown, fmt)}"
+        f"<h2>Failing and review vessels, worst first</h2>{note}"
         + "".join(_vessel(v, fmt) for v in shown)
     )
+
+
+def _register_blends(vessels: list, shown: list, fmt: Formatter) -> str:
+    from fillcheck.report.register_blends import BLEND_COLUMNS, BLEND_TITLE, register_blend_rows
+
+    rows, more = register_blend_rows(vessels, shown, fmt)
+    if not rows:
+        return ""
+    head = "".join(f"<th>{_e(c)}</th>" for c in BLEND_COLUMNS)
+    body = "".join("<tr>" + "".join(f"<td>{_e(c)}</td>" for c in r) + "</tr>" for r in rows)
+    tail = f"<p>{more} more blend recipes are listed in the JSON output.</p>" if more else ""
+    return f"<h3>{_e(BLEND_TITLE)}</h3><table><tr>{head}</tr>{body}</table>{tail}"
 
 
 def render_html(

@@ -132,6 +132,24 @@ def _blend_tables(v: VesselAssessment, fmt: Formatter) -> list[Table]:
     return [t, s]
 
 
+def _print_register_blends(
+    console: Console, vessels: list[VesselAssessment], shown: list[VesselAssessment], fmt: Formatter
+) -> None:
+    from fillcheck.report.register_blends import BLEND_COLUMNS, BLEND_TITLE, register_blend_rows
+
+    rows, more = register_blend_rows(vessels, shown, fmt)
+    if not rows:
+        return
+    t = Table(title=BLEND_TITLE, title_justify="left")
+    for col in BLEND_COLUMNS:
+        t.add_column(col, justify="right" if col in ("add", "contents after") else "left")
+    for r in rows:
+        t.add_row(*r)
+    console.print(t)
+    if more:
+        console.print(f"{more} more blend recipes in --json or --html.")
+
+
 def _filling_table(v: VesselAssessment, fmt: Formatter) -> Table:
     t = Table(title="Fill process", title_justify="left", show_edge=False, expand=False)
     t.add_column("quantity")
@@ -191,6 +209,7 @@ def _render(
             )
         console.print(worst)
         shown = summary["flagged"][:DETAIL_LIMIT]
+        _print_register_blends(console, a.vessels, shown, fmt)
         rest = len(summary["flagged"]) - len(shown)
         console.print(
             "Failing and review vessels in detail, worst first"
