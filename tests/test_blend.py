@@ -612,3 +612,44 @@ def test_register_report_prints_the_recipe_of_passing_blend_rows(tmp_path) -> No
             ):
                 assert shown in text, shown
                 assert shown in page, shown
+
+
+def test_stop_table_gives_each_blend_step_by_gas_temperature() -> None:
+    """stop-table prints, for a blend made in the vessel, each step's stop pressure by gas
+    temperature (the contents after that step); the numbers are the check report's
+    (JSON ``blend.steps[].stop_table_Pa``) at the temperatures both tables hold, "weigh it"
+    (JSON null) where the contents hold liquid."""
+    common = [str(DEMO), "--vessel", "BEV-6040-CO2-FIRST-COLD", "--json"]
+    check = subprocess.run(
+        [sys.executable, "-m", "fillcheck", "check", str(DEMO), "--json"],
+        capture_output=True, text=True, timeout=300,
+    )  # fmt: skip
+    table = subprocess.run(
+        [sys.executable, "-m", "fillcheck", "stop-table", *common, "--from", "-10 degC",
+         "--to", "40 degC", "--step", "5 K"],
+        capture_output=True, text=True, timeout=300,
+    )  # fmt: skip
+    assert table.returncode in (0, 1), table.stderr
+    by_id = {v["id"]: v for v in json.loads(check.stdout)["vessels"]}
+    blend = by_id["BEV-6040-CO2-FIRST-COLD"]["blend"]
+    st = json.loads(table.stdout)["result"][0]
+    assert st["blend_order"] == blend["order"] == ["carbon dioxide", "nitrogen"]
+    T_check = blend["stop_table_temperatures_K"]
+    T_stop = [r["gas_temperature_K"] for r in st["rows"]]
+    assert T_stop == pytest.approx(T_check, abs=1e-9)
+    for a, b in zip(blend["steps"], st["blend_steps"], strict=True):
+        assert b["component"] == a["component"]
+        assert b["cumulative_mass_kg"] == pytest.approx(a["cumulative_mass_kg"], rel=1e-12)
+        for p, q in zip(a["stop_table_Pa"], b["stop_pressure_Pa"], strict=True):
+            assert (p is None) == (q is None)
+            if p is not None:
+                assert q == pytest.approx(p, rel=1e-9)
+    # step 1 (carbon dioxide alone, 6.3 kg in 50 L) holds liquid at 5 °C, the blend temperature
+    assert st["blend_steps"][0]["liquid_at_blend_temperature"] is True
+    assert st["blend_steps"][0]["stop_pressure_Pa"][T_stop.index(pytest.approx(278.15))] is None
+    shown = subprocess.run(
+        [sys.executable, "-m", "fillcheck", "stop-table", *common[:-1], "--width", "120"],
+        capture_output=True, text=True, timeout=300,
+    )  # fmt: skip
+    assert "step 1: carbon dioxide" in shown.stdout and "weigh it" in shown.stdout
+    assert "holds liquid at the blend temperature" in shown.stdout

@@ -40,6 +40,20 @@ class StopRow:
 
 
 @dataclass(frozen=True)
+class BlendStopStep:
+    """One step of a blend made in the vessel, by gas temperature: the component added, its
+    mass and the contents' mass after it [kg], and the pressure to stop that step at
+    [Pa abs] at each of the table's gas temperatures (None where the contents hold liquid:
+    weigh that step)."""
+
+    component: str
+    added_mass_kg: float
+    cumulative_mass_kg: float
+    stop_pressure_Pa: list[float | None]
+    liquid_at_blend_temperature: bool
+
+
+@dataclass(frozen=True)
 class StopTable:
     """The stop-fill table of one vessel."""
 
@@ -67,6 +81,11 @@ class StopTable:
     gives that reading instead of a table of pressures per gas temperature."""
     tare_mass_kg: float | None = None
     """The marked empty weight [kg] (the scale reading is tare + charge), or None."""
+    blend_order: list[str] | None = None
+    """For a blend made in the vessel ([vessel.blend]): the order the recipe takes."""
+    blend_temperature_K: float | None = None
+    blend_steps: list[BlendStopStep] | None = None
+    """Each blend step's stop pressure at the table's gas temperatures (``rows``)."""
 
 
 def fill_temperatures(v: VesselInput, T_ref: float, step_K: float) -> tuple[np.ndarray, float]:
@@ -138,7 +157,46 @@ def stop_table(v: VesselInput, T_ref: float, temperatures_K: np.ndarray) -> Stop
         over_plan=_over_plan(v, T_ref, rho),
         by_weight=v.fill_kind == "mass",
         tare_mass_kg=None if v.marking is None else v.marking.tare_mass_kg,
+        **_blend_steps(v, rho * M * v.water_capacity_m3, T),
     )
+
+
+def _blend_steps(v: VesselInput, charge_kg: float, T: np.ndarray) -> dict[str, object]:
+    """The StopTable fields of a blend: the recipe of the planned charge (assess.blend), each
+    step's contents rebuilt from its masses and followed over the gas temperatures T [K]."""
+    if getattr(v, "blend", None) is None:
+        return {}
+    from fillcheck.assess.blend import LIQUID_PHASES, _content_fluid, blend_recipe
+
+    r = blend_recipe(v, charge_kg)
+    if r.error is not None:
+        return {}
+    f = v.fluid
+    names = list(f.component_names)
+    masses = np.array([r.residual_masses_kg.get(c, 0.0) for c in names])
+    steps = []
+    for s in r.steps:
+        masses[names.index(s.component)] += s.added_mass_kg
+        n = masses / f.molar_masses
+        g = _content_fluid(f, n > 0.0, n)
+        path = vessel_path(g, T, np.full(T.shape, n.sum() / v.water_capacity_m3))
+        liquid = np.isin(path.phase, LIQUID_PHASES)
+        steps.append(
+            BlendStopStep(
+                component=s.component,
+                added_mass_kg=s.added_mass_kg,
+                cumulative_mass_kg=s.cumulative_mass_kg,
+                stop_pressure_Pa=[
+                    None if q else float(P) for q, P in zip(liquid, path.P, strict=True)
+                ],
+                liquid_at_blend_temperature=s.liquid_present,
+            )
+        )
+    return {
+        "blend_order": list(r.order),
+        "blend_temperature_K": r.temperature_K,
+        "blend_steps": steps,
+    }
 
 
 def _over_plan(v: VesselInput, T_ref: float, rho: float) -> bool:

@@ -106,6 +106,8 @@ def _stop_tables(
             )
         if st.by_weight:
             console.print(Text(by_weight_line(st, system), style="bold"))
+            if st.blend_steps:
+                _blend_stop_table(console, st, p, t, system)
             console.print(f"Model: {st.model_name} ({st.model}); {st.model_source}")
             continue
         table = Table(show_edge=True)
@@ -130,6 +132,8 @@ def _stop_tables(
                 "weigh the fill" if weigh else p(r.safe_stop_pressure_Pa),
             )
         console.print(table)
+        if st.blend_steps:
+            _blend_stop_table(console, st, p, t, system)
         console.print(f"Model: {st.model_name} ({st.model}); {st.model_source}")
         if st.fill_end_temperature_K is not None:
             console.print(
@@ -154,6 +158,47 @@ def _stop_tables(
                 )
             )
     _foot(console, record)
+
+
+def _blend_stop_table(
+    console: Console, st: StopTable, p: Any, t: Any, system: units.UnitSystem
+) -> None:
+    """Each blend step's stop pressure by gas temperature (the contents after that step)."""
+    steps = st.blend_steps or []
+    console.print(
+        Text(
+            f"Blend made in the vessel ({', then '.join(st.blend_order or [])}; the recipe is "
+            f"read at {t(st.blend_temperature_K)}): stop each step at",
+            style="bold",
+        )
+    )
+    table = Table(show_edge=True)
+    table.add_column("gas temperature", justify="right")
+    for k, s in enumerate(steps, start=1):
+        table.add_column(
+            f"step {k}: {s.component}\n"
+            f"(contents {units.format_mass(s.cumulative_mass_kg, system)})",
+            justify="right",
+        )
+    for i, r in enumerate(st.rows):
+        table.add_row(
+            t(r.gas_temperature_K),
+            *(
+                "weigh it" if s.stop_pressure_Pa[i] is None else p(s.stop_pressure_Pa[i])
+                for s in steps
+            ),
+        )
+    console.print(table)
+    bad = [k for k, s in enumerate(steps, start=1) if s.liquid_at_blend_temperature]
+    if bad:
+        console.print(
+            Text(
+                f"Step {', '.join(map(str, bad))} holds liquid at the blend temperature: its "
+                "pressure does not tell the amount in, and the mixture is not the recipe's "
+                "(see the check report's finding blend-step-condenses).",
+                style="bold red",
+            )
+        )
 
 
 def by_weight_line(st: StopTable, system: units.UnitSystem) -> str:
