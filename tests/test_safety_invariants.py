@@ -4,7 +4,10 @@ Random vessels are built in-process through the public scenario path (``scenario
 the same validation a TOML file gets) and assessed with ``assess_scenario``. The gases: permanent
 gases (nitrogen, argon, air, hydrogen, helium, methane), liquefied gases (carbon dioxide, propane,
 ammonia, R134a, sulfur hexafluoride, hydrogen sulfide, n-butane) and mixtures (argon + carbon
-dioxide, nitrogen + oxygen, propane + n-butane), all with their default (most accurate) model.
+dioxide, nitrogen + carbon dioxide, nitrogen + oxygen, propane + n-butane), all with their
+default (most accurate) model; half the compressed mixtures are made in the cylinder, with a
+``[vessel.blend]`` table (an order or none, a blend temperature, sometimes gas left in the
+vessel).
 Every generated value stays inside the README's plausibility bounds and inside what real
 cylinders hold: water capacity 1–1000 L, temperatures −40…+70 °C, allowable pressures scaled to
 the gas (to its fill pressure for a permanent gas, to its vapour pressure for a liquefied one).
@@ -49,6 +52,12 @@ Invariants:
     assess/batch.py switches grids above 50 vessels). Numbers agree to 1e-9 relative; a
     temperature found by the exact crossing solve agrees to its solve tolerance (1 µK for a
     pure gas, 1 mK for a mixture, assess.batch.exact_reach).
+(f) A blended vessel that passes has a recipe that keeps its limits: the masses its steps add
+    come to the charge (residual included) and give the mixture's composition; and each step's
+    contents, rebuilt here from the step masses and evaluated with the public
+    ``fillcheck.mixture(...)`` / ``fillcheck.fluid(...)`` API at the blend temperature, hold no
+    liquid and stand at the recipe's stop pressure. With (b), the plan followed by weight keeps
+    its blend (the plan is bounded by the blend, assess.charge).
 
 Default run: a few hundred scenarios in total, derandomized (reproducible in CI). The same
 properties over 10,000 scenarios: ``python -m pytest -m slow tests/test_safety_invariants.py``.
@@ -165,7 +174,8 @@ class Case:
     @property
     def checked_range(self) -> tuple[float, float]:
         """Lowest of min storage, fill and reference temperatures; highest of max storage and
-        fill temperatures (issue 11, "the checked range") [K]."""
+        fill temperatures (issue 11, "the checked range"); a blend's temperature at both ends
+        [K]."""
         lows = [self.T_ref, self.T_max]
         highs = [self.T_max]
         if self.T_min is not None:
@@ -173,6 +183,10 @@ class Case:
         if self.T_fill is not None:
             lows.append(self.T_fill)
             highs.append(self.T_fill)
+        if "blend" in self.extra:  # the full charge at the blend temperature, its last step
+            T_blend = float(self.extra["blend"]["temperature"].split()[0]) + ZERO_C
+            lows.append(T_blend)
+            highs.append(T_blend)
         return min(lows), max(highs)
 
 
@@ -231,7 +245,7 @@ def vessel_raw(c: Case, vid: str = "V1") -> dict[str, Any]:
     if c.vs_fraction is not None and c.vs_T is not None:
         limits["min_vapour_space"] = c.vs_fraction
         limits["vapour_space_temperature"] = _c(c.vs_T)
-    return {
+    out = {
         "id": vid,
         "gas": c.gas,
         "water_capacity": f"{c.V_m3 * 1000.0!r} L",
@@ -239,6 +253,9 @@ def vessel_raw(c: Case, vid: str = "V1") -> dict[str, Any]:
         "storage": storage,
         "limits": limits,
     }
+    if "blend" in c.extra:
+        out["blend"] = c.extra["blend"]
+    return out
 
 
 def scenario_raw(c: Case, vessels: list[dict[str, Any]] | None = None) -> dict[str, Any]:
@@ -359,6 +376,7 @@ def liquefied_cases(draw: st.DrawFn, allow_k: tuple[float, float] = (0.6, 4.0)) 
 #: Mixtures: (components, the varying component, its mole-fraction range, liquefied?).
 MIXTURES = (
     (("argon", "carbon dioxide"), (0.05, 0.3), False),
+    (("nitrogen", "carbon dioxide"), (0.05, 0.4), False),
     (("nitrogen", "oxygen"), (0.05, 0.5), False),
     (("propane", "n-butane"), (0.1, 0.9), True),
 )
@@ -395,9 +413,31 @@ def mixture_cases(draw: st.DrawFn, blends: bool = True) -> Case:
             reject()
         value = round(rho * V, 6) if kind == "mass" else P_fill
     c = Case(gas, {}, T_ref, T_fill, T_min, T_max, kind, value, V, allow, ref_text=ref_text)
+    if not liquefied and draw(st.booleans()):
+        c.extra["blend"] = draw(blend_tables((a, b)))
     _limits(draw, c, rho, 530.0 if liquefied else None)
     c.raw = scenario_raw(c)
     return c
+
+
+@st.composite
+def blend_tables(draw: st.DrawFn, names: tuple[str, ...]) -> dict[str, Any]:
+    """A ``[vessel.blend]`` table: the components' order (or none: the tool suggests one), a
+    blend temperature from -10 to 35 °C, and in one case in four gas left in the vessel (one
+    component or the mixture, 0.5 to 5 bar gauge)."""
+    table: dict[str, Any] = {"temperature": _c(ZERO_C + round(draw(st.floats(-10.0, 35.0)), 1))}
+    if draw(st.booleans()):
+        table["order"] = list(draw(st.permutations(names)))
+    if draw(st.integers(0, 3)) == 0:
+        res: dict[str, Any] = {
+            "pressure": f"{round(draw(st.floats(0.5, 5.0)), 2)} barg",
+            "temperature": _c(ZERO_C + round(draw(st.floats(0.0, 30.0)), 1)),
+        }
+        gas = draw(st.sampled_from((None, *names)))
+        if gas is not None:
+            res["gas"] = gas
+        table["residual"] = res
+    return table
 
 
 def _limits(draw: st.DrawFn, c: Case, rho: float, rho_liquid: float | None = None) -> None:
@@ -499,6 +539,8 @@ def check_pass_is_safe(c: Case, a: VesselAssessment | None = None) -> None:
     if not c.mixture and c.vs_fraction is not None and c.vs_T is not None and c.vs_T < Tc:
         frac = liquid_fraction(f, c.vs_T, rho)
         assert frac <= 1.0 - c.vs_fraction + 1e-12, f"PASS with vapour space {1 - frac}: {where}"
+    if "blend" in c.extra:
+        check_blend_keeps_its_limits(c, a)
     if not c.mixture:
         # a sample of the grid by CoolProp 8.0.0's evaluation of the same reference equation
         name = COOLPROP[c.gas]
@@ -506,6 +548,43 @@ def check_pass_is_safe(c: Case, a: VesselAssessment | None = None) -> None:
             ref = coolprop_pressure(name, float(T[i]), rho)
             if ref is not None:
                 assert P[i] == pytest.approx(ref, rel=2e-6), (float(T[i]), rho, where)
+
+
+# --- invariant (f) -----------------------------------------------------------------------------
+
+
+def check_blend_keeps_its_limits(c: Case, a: VesselAssessment) -> None:
+    """Invariant (f) for a passing blended vessel (module docstring)."""
+    r = a.blend
+    where = f"{c.raw}"
+    assert r is not None and r.error is None, f"PASS without a recipe: {where}"
+    f = _public_fluid(c.gas)
+    names = list(f.component_names)
+    masses = dict.fromkeys(names, 0.0)
+    for k, v in r.residual_masses_kg.items():
+        masses[k] += v
+    assert [s.component for s in r.steps] == list(r.order), where
+    for s in r.steps:
+        masses[s.component] += s.added_mass_kg
+        total = sum(masses.values())
+        assert s.cumulative_mass_kg == pytest.approx(total, rel=1e-12), where
+        present = {k: m for k, m in masses.items() if m > 0.0}
+        moles = {k: m / float(f.molar_masses[names.index(k)]) for k, m in present.items()}
+        n = sum(moles.values())
+        g = (
+            fillcheck.fluid(next(iter(present)))
+            if len(present) == 1
+            else fillcheck.mixture({k: x / n for k, x in moles.items()})
+        )
+        st_ = g.state(T=r.temperature_K, rho=total / c.V_m3)
+        assert str(st_.phase) not in ("two-phase", "liquid"), (
+            f"PASS but step {s.component} holds liquid at the blend temperature: {where}"
+        )
+        assert s.stop_pressure_Pa == pytest.approx(float(st_.P), rel=1e-6), where
+    assert sum(masses.values()) == pytest.approx(a.charged_mass_kg, rel=1e-9), where
+    M = f.molar_masses
+    x = np.array([masses[k] / float(M[i]) for i, k in enumerate(names)])
+    assert np.allclose(x / x.sum(), f.z, rtol=0.0, atol=1e-9), f"recipe makes {x / x.sum()}"
 
 
 # --- invariant (b) -----------------------------------------------------------------------------
@@ -901,3 +980,29 @@ def test_near_critical_density_completes() -> None:
         {"allowable_pressure": "450 barg"},
     )
     assert a.verdict in ("pass", "fail", "review")
+
+
+def test_blend_temperature_joins_the_checked_range() -> None:
+    # argon 89.5 % + carbon dioxide 10.5 % (mol) blended at 25.7 °C into 1 L stored at most at
+    # 0 °C: the plan once kept the model's 350 bar range up to 15 °C only, so its last blend
+    # step stopped above the range at 25.7 °C and the plan followed asked for review
+    # (blend-outside-model-range); the blend temperature is a state of the vessel now
+    raw = {
+        "vessel": [
+            {
+                "id": "V1",
+                "gas": {"argon": 0.895, "carbon dioxide": 0.105},
+                "water_capacity": "1.0 L",
+                "fill": {"mass": "0.330144 kg"},
+                "storage": {"max_temperature": "0.00 degC"},
+                "limits": {"allowable_pressure": "394.4185 barg"},
+                "blend": {"temperature": "25.70 degC"},
+            }
+        ]
+    }
+    plan = assess_raw(raw, complete=True)[0].max_safe_charge_kg
+    raw["vessel"][0]["fill"] = {"mass": f"{plan!r} kg"}
+    b = assess_raw(raw, complete=True)[0]
+    assert b.verdict == "pass", [(x.code, x.severity) for x in b.findings]
+    assert b.max_state.temperature_K == pytest.approx(ZERO_C + 25.7)
+    assert max(s.stop_pressure_Pa for s in b.blend.steps) <= 350e5

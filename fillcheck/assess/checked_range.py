@@ -2,9 +2,11 @@
 
 It runs from the lowest of the minimum storage, fill and reference (settling) temperatures to the
 highest of the maximum storage and fill temperatures and, with a fill process
-(``[vessel.filling]``), the gas temperature at the end of the fill. A fill made hotter than the
+(``[vessel.filling]``), the gas temperature at the end of the fill; a blend made in the vessel
+(``[vessel.blend]``) adds its blend temperature at both ends. A fill made hotter than the
 storage range is checked at its own state; a settled pressure read at the reference temperature
-is a state of the vessel too. Every limit is checked over the whole range, and the plan keeps
+is a state of the vessel too, and so is the full charge at the blend temperature, where its last
+step stops. Every limit is checked over the whole range, and the plan keeps
 every limit over it.
 """
 
@@ -28,6 +30,10 @@ def checked_range(v: VesselInput, T_ref: float) -> tuple[float, float]:
     if v.fill_temperature_K is not None:
         lows.append(v.fill_temperature_K)
         highs.append(v.fill_temperature_K)
+    blend = getattr(v, "blend", None)
+    if blend is not None:
+        lows.append(blend.temperature_K)
+        highs.append(blend.temperature_K)
     if v.filling is not None:
         from fillcheck.assess.fill_process import hot_end_temperature_K  # it imports batch
 
