@@ -482,3 +482,32 @@ def test_html_report_has_an_area_section_with_its_chart() -> None:
     page = render_html(result)
     area = page[page.index("<h2>Storage areas</h2>") :]
     assert "Area ROOM" in area and "<svg" in area and "area-oxygen-deficient" in area
+
+
+def test_flammable_gas_without_a_known_limit_asks_for_review() -> None:
+    """A [[gas]] entered by the user as flammable has no lower flammable limit in the catalog:
+    the area cannot judge its release against the LFL share, so it asks for review
+    (area-flammable-limit-unknown) naming the vessel and the component, and the whole result is
+    not a pass. Every flammable catalog gas has its limit (IEC 60079-20-1, assess.area.LFL)."""
+    from fillcheck.assess.area import LFL
+    from fillcheck.fluids.catalog import all_fluids
+
+    assert not [f.name for f in all_fluids() if "flammable" in f.hazards and f.name not in LFL]
+    gas = {
+        "name": "test fuel gas X",
+        "molar_mass": "58.1 g/mol",
+        "critical_temperature": "152 degC",
+        "critical_pressure": "38 bara",
+        "acentric_factor": 0.2,
+        "hazards": ["flammable"],
+    }
+    v = [_vessel("FX-1", "test fuel gas X", fill={"mass": "1 kg"}, water_capacity="12 L")]
+    v[0]["limits"] = {"allowable_pressure": "30 barg"}
+    raw = {"gas": [gas], "vessel": v, "area": [_area(volume="5000 m3", air="6 /h")]}
+    result = assess_scenario(scenario_from_dict(raw, "stores.toml"))
+    area = result.areas[0]
+    found = [f for f in area.findings if f.code == "area-flammable-limit-unknown"]
+    assert len(found) == 1 and found[0].severity == "review"
+    assert found[0].data["vessel"] == "FX-1"
+    assert found[0].data["component"] == "test fuel gas X"
+    assert area.verdict == "review" and result.verdict != "pass"
