@@ -159,7 +159,7 @@ def check(
     if jobs != 1:
         _refuse("--jobs applies to --jsonl only; add --jsonl OUT, or leave --jobs out")
     if html_out is not None:
-        from fillcheck.report.html_report import destination_problem
+        from fillcheck.report.output_file import destination_problem
 
         problem = destination_problem(html_out, force, source=file)
         if problem is not None:
@@ -203,8 +203,8 @@ def check(
 def _check_jsonl(file: Path, out: str, force: bool, units: Units | None, jobs: int = 1) -> None:
     """``check --jsonl``: stream one JSON line a vessel to ``out`` ('-' for stdout), written to
     a temporary file and renamed when complete (a refused or failed run leaves nothing)."""
+    import contextlib
     import json
-    import tempfile
 
     from fillcheck.records import stream_register
 
@@ -212,21 +212,20 @@ def _check_jsonl(file: Path, out: str, force: bool, units: Units | None, jobs: i
         _refuse("--jobs applies to registers (.csv); a scenario file is checked in one process")
     to_stdout = out == "-"
     if not to_stdout:
-        from fillcheck.report.html_report import destination_problem
+        from fillcheck.report.output_file import destination_problem
 
         problem = destination_problem(Path(out), force, source=file, kind_of_file=".jsonl file")
         if problem is not None:
             _refuse(problem)
     counts = {"pass": 0, "fail": 0, "review": 0}
     area_verdicts: list[str] = []
-    tmp: str | None = None
-    try:
+    with contextlib.ExitStack() as stack:
         if to_stdout:
             sink = sys.stdout
         else:
-            folder = Path(out).parent if str(Path(out).parent) else Path(".")
-            fd, tmp = tempfile.mkstemp(prefix=".fillcheck-", suffix=".jsonl", dir=folder)
-            sink = os.fdopen(fd, "w", encoding="utf-8")
+            from fillcheck.report.output_file import replacing
+
+            sink = stack.enter_context(replacing(Path(out), ".jsonl"))
         with _guarded("the check", file):
             if file.suffix.lower() == ".csv":
                 from fillcheck.scenario.register import read_rows
@@ -252,16 +251,6 @@ def _check_jsonl(file: Path, out: str, force: bool, units: Units | None, jobs: i
             for result in results:
                 sink.write(json.dumps(result, ensure_ascii=False) + "\n")
                 counts[result["verdict"]] += 1
-        if not to_stdout:
-            sink.close()
-            umask = os.umask(0)
-            os.umask(umask)
-            os.chmod(tmp, 0o666 & ~umask)  # type: ignore[arg-type]
-            os.replace(tmp, out)  # type: ignore[arg-type]
-            tmp = None
-    finally:
-        if tmp is not None:
-            Path(tmp).unlink(missing_ok=True)
     total = sum(counts.values())
     areas_said = ""
     if area_verdicts:

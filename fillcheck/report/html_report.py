@@ -9,9 +9,6 @@ from __future__ import annotations
 
 import datetime as _dt
 import html
-import os
-import stat
-import tempfile
 from pathlib import Path
 
 from fillcheck import units
@@ -36,6 +33,7 @@ from fillcheck.report.content import (
     verdict_sentence,
 )
 from fillcheck.report.fill_section import filling_chart_svg, filling_rows
+from fillcheck.report.output_file import destination_problem, replacing
 from fillcheck.report.permit_record import Record, sign_off_rows
 from fillcheck.report.terminal import header_rows, tally
 from fillcheck.report.wording import finding_message
@@ -212,68 +210,15 @@ def render_html(
     )
 
 
-def destination_problem(
-    path: Path, force: bool, source: Path | None = None, kind_of_file: str = ".html file"
-) -> str | None:
-    """Why the report may not be written to ``path`` (one sentence), or None if it may.
-
-    Only a new file, or with ``force`` an existing regular file, is written: never a device
-    (``/dev/null``), a pipe, a folder or a symbolic link, and never the input file ``source``.
-    """
-    path = Path(path)
-    try:
-        st = os.lstat(path)
-    except FileNotFoundError:
-        st = None
-    except OSError as exc:
-        return f"{path}: cannot be written ({exc.strerror}); choose another path"
-    if st is not None:
-        if stat.S_ISLNK(st.st_mode):
-            kind = "a symbolic link"
-        elif stat.S_ISDIR(st.st_mode):
-            kind = "a folder"
-        elif not stat.S_ISREG(st.st_mode):
-            kind = "a device, a pipe or a socket"
-        else:
-            kind = None
-        if kind is not None:
-            return f"{path}: is {kind}, not a regular file; give the path of a new {kind_of_file}"
-        if source is not None and _same_file(path, Path(source)):
-            return f"{path}: is the input file itself; give the report another name"
-        if not force:
-            return f"{path}: the file exists; give --force to replace it, or another name"
-    folder = path.parent if str(path.parent) else Path(".")
-    if not folder.is_dir():
-        return f"{path}: the folder {folder} does not exist; create it first"
-    return None
-
-
-def _same_file(a: Path, b: Path) -> bool:
-    try:
-        return os.path.samefile(a, b)
-    except OSError:
-        return False
-
-
 def write_html(text: str, path: Path, force: bool) -> None:
-    """Write atomically: a temporary file in the same folder, then a rename.
+    """Write the report atomically (report.output_file): a temporary file in the same folder,
+    then a rename.
 
     Raises InputError if the file exists and ``force`` is not given, if it is not a regular file
     (a device, a folder, a symbolic link), or the folder is missing.
     """
-    path = Path(path)
-    problem = destination_problem(path, force)
+    problem = destination_problem(Path(path), force)
     if problem is not None:
         raise InputError(problem)
-    folder = path.parent if str(path.parent) else Path(".")
-    fd, tmp = tempfile.mkstemp(prefix=".fillcheck-", suffix=".html", dir=folder)
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8") as fh:
-            fh.write(text)
-        umask = os.umask(0)
-        os.umask(umask)
-        os.chmod(tmp, 0o666 & ~umask)
-        os.replace(tmp, path)
-    except BaseException:
-        Path(tmp).unlink(missing_ok=True)
-        raise
+    with replacing(Path(path), ".html") as fh:
+        fh.write(text)
