@@ -473,8 +473,9 @@ def test_step_beyond_the_model_range_asks_for_review() -> None:
 
 def test_a_blend_bounds_the_plan_where_a_step_would_condense(tmp_path) -> None:
     """60/40 by mass, carbon dioxide first at 5 °C: the 200 barg charge condenses in its first
-    step, so the plan is the largest charge whose carbon dioxide alone stays below its saturated
-    vapour density at 5 °C (CoolProp 8.0.0 HEOS, Span–Wagner, QT_INPUTS); the demo's vessel
+    step, so the plan is the largest charge whose carbon dioxide alone stops below the liquid
+    band at 5 °C: below 95 % (the gauge's 5 %) of its vapour pressure at 3 °C (the thermometer's
+    2 K), CoolProp 8.0.0 HEOS (Span–Wagner, QT_INPUTS and DmassT_INPUTS); the demo's vessel
     filled by weight to that plan keeps every step gas (a plan followed passes its blend)."""
     f = fillcheck.mixture({"nitrogen": 0.6, "carbon dioxide": 0.4}, basis="mass")
     v = _vessel(f, _blend(("carbon dioxide", "nitrogen"), 278.15))
@@ -482,11 +483,15 @@ def test_a_blend_bounds_the_plan_where_a_step_would_condense(tmp_path) -> None:
     full_kg = full * f.molar_mass
     plan = blend_bounded_plan(v, full_kg, 0.01)
     assert plan is not None and plan < full_kg
-    sat = CP.AbstractState("HEOS", "CarbonDioxide")
-    sat.update(CP.QT_INPUTS, 1.0, 278.15)
-    rho_v = sat.rhomass()
-    w_co2 = 0.4  # mass fraction
-    assert w_co2 * plan / V < rho_v <= w_co2 * (plan + 0.02) / V
+    co2 = CP.AbstractState("HEOS", "CarbonDioxide")
+    co2.update(CP.QT_INPUTS, 1.0, 276.15)
+    floor = 0.95 * co2.p()
+
+    def step_1(kg: float) -> float:  # the carbon dioxide alone in the vessel at 5 °C [Pa]
+        co2.update(CP.DmassT_INPUTS, 0.4 * kg / V, 278.15)  # 0.4: its mass fraction
+        return co2.p()
+
+    assert step_1(plan) < floor <= step_1(plan + 0.02)
     assert blend_bounded_plan(v, plan, 0.01) == plan  # already within: unchanged
     # the whole check: the plan governs, and the vessel filled to it passes its blend
     from fillcheck.assess import assess_scenario
@@ -653,3 +658,73 @@ def test_stop_table_gives_each_blend_step_by_gas_temperature() -> None:
     )  # fmt: skip
     assert "step 1: carbon dioxide" in shown.stdout and "weigh it" in shown.stdout
     assert "holds liquid at the blend temperature" in shown.stdout
+
+
+def test_a_step_near_its_dew_point_is_weighed_and_the_plan_keeps_clear(tmp_path) -> None:
+    """57/43 nitrogen–carbon dioxide by mass to 200 barg at 15 °C, carbon dioxide first: its step
+    stops at 46.9 barg, gas at 15 °C but above 95 % of carbon dioxide's vapour pressure at 13 °C
+    (45.0 barg; CoolProp 8.0.0 HEOS, Span–Wagner: P_sat(286.15 K) = 46.41 bar abs). A gas 2 K
+    colder than read would condense, so the step is weighed (warning blend-step-near-dew), and
+    the plan keeps the step below the band; the vessel filled to the plan has no such step."""
+    from fillcheck.assess import assess_scenario
+    from fillcheck.scenario.resolve import load_scenario
+
+    co2 = CP.AbstractState("HEOS", "CarbonDioxide")
+    co2.update(CP.QT_INPUTS, 1.0, 286.15)
+    floor = 0.95 * co2.p()
+
+    def scenario(fill: str) -> Path:
+        p = tmp_path / "near.toml"
+        p.write_text(
+            BASE.replace("B-1", "NEAR")
+            .format(
+                gas='{ nitrogen = "57 %", "carbon dioxide" = "43 %" }',
+                blend='order = ["carbon dioxide", "nitrogen"]\ntemperature = "15 degC"',
+            )
+            .replace('fill = { settled_pressure = "200 barg", temperature = "15 degC" }', fill)
+            .replace("gas = {", 'composition_basis = "mass"\ngas = {', 1)
+        )
+        return p
+
+    a = assess_scenario(load_scenario(scenario(
+        'fill = { settled_pressure = "200 barg", temperature = "15 degC" }'
+    ))).vessels[0]  # fmt: skip
+    s1 = a.blend.steps[0]
+    assert s1.component == "carbon dioxide" and not s1.liquid_present
+    assert s1.stop_pressure_Pa >= floor and s1.in_liquid_band
+    assert ("blend-step-near-dew", "warning") in [(f.code, f.severity) for f in a.findings]
+    assert a.governing_limit == BLEND_PLAN_LIMIT and a.max_safe_charge_kg < a.charged_mass_kg
+    b = assess_scenario(load_scenario(scenario(
+        f'fill = {{ mass = "{a.max_safe_charge_kg!r} kg", temperature = "15 degC" }}'
+    ))).vessels[0]  # fmt: skip
+    assert not any(s.in_liquid_band or s.liquid_present for s in b.blend.steps)
+    assert b.blend.steps[0].stop_pressure_Pa < floor
+    assert b.verdict == "pass", [(f.code, f.severity) for f in b.findings]
+
+
+def test_recipe_rows_say_what_cannot_be_read_or_made() -> None:
+    """A condensing step has no stop pressure in JSON (null, with liquid_present), a residual
+    richer than the target gives no negative addition but "cannot be made", and a 5 g scale
+    resolution is printed as 5 g (not rounded to 0.01 kg)."""
+    from fillcheck.report.blend_section import blend_dict, blend_rows
+    from fillcheck.report.content import Formatter
+
+    fmt = Formatter("metric", P_ATM)
+    f = fillcheck.mixture({"nitrogen": 0.6, "carbon dioxide": 0.4}, basis="mass")
+    v = _vessel(f, _blend(("carbon dioxide", "nitrogen"), 278.15, scale=0.005))
+    r = blend_recipe(v, 15.75)
+    assert r.steps[0].liquid_present
+    a = SimpleNamespace(blend=r, model_name="m", model="reference")
+    steps = blend_dict(a)["steps"]
+    assert steps[0]["stop_pressure_Pa"] is None and steps[0]["liquid_present"] is True
+    assert steps[1]["stop_pressure_Pa"] == pytest.approx(r.steps[1].stop_pressure_Pa)
+    rows = dict(blend_rows(a, fmt))
+    assert rows["scale resolution"] == "5 g"
+    assert "no stop pressure (liquid forms): go by weight" in rows["step 1: carbon dioxide"]
+    g = fillcheck.mixture({"argon": 0.82, "carbon dioxide": 0.18})
+    res = ResidualInput(40e5 + P_ATM, 288.15, "carbon dioxide")
+    r2 = blend_recipe(_vessel(g, _blend(("argon", "carbon dioxide"), 288.15, residual=res)), 20.0)
+    assert r2.steps[1].added_mass_kg < 0.0
+    rows2 = dict(blend_rows(SimpleNamespace(blend=r2, model_name="m", model="reference"), fmt))
+    said = rows2["step 2: carbon dioxide"]
+    assert said.startswith("cannot be made") and "vent" in said and "-" not in said

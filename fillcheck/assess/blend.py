@@ -5,7 +5,10 @@ the components added so far; that content, at the vessel's volume, gives by the 
 mixture model (the same model form and parameters as the vessel's own check) the pressure to
 stop the step at for the stated blend temperature, and whether the content holds liquid there
 (a fixed-volume phase split: :mod:`fillcheck.thermo.mixture_vessel`) and at the lowest storage
-temperature. Beside it is what an ideal-gas partial-pressure recipe says: the final pressure
+temperature. A stop pressure within the gauge's and the thermometer's error of the content's
+dew pressure (the liquid band of :mod:`fillcheck.thermo.liquid_band`, the rule every command
+uses) does not tell the amount in either: such a step is weighed, and the plan keeps every step
+out of the band. Beside it is what an ideal-gas partial-pressure recipe says: the final pressure
 times the share of the final amount in after the step (Dalton's law), n_k/n · P_final.
 
 The content after a step depends on which components are in, not on the order they went in, so
@@ -36,6 +39,7 @@ from fillcheck.assess.cautions import Caution
 from fillcheck.assess.result import Finding
 from fillcheck.errors import FillcheckError
 from fillcheck.thermo.fluid import Fluid
+from fillcheck.thermo.liquid_band import in_liquid_band, liquid_band_floor
 from fillcheck.thermo.mixture_fluid import MixtureFluid
 from fillcheck.thermo.vessel import vessel_path
 
@@ -62,6 +66,8 @@ class Content:
     liquid_cold: bool | None
     table_P_Pa: np.ndarray
     table_liquid: np.ndarray
+    in_band: bool = False
+    """Gas at the blend temperature, but its stop pressure lies in the liquid band."""
 
 
 @dataclass
@@ -82,6 +88,9 @@ class BlendStep:
     scale_reading_kg: float | None
     table_P_Pa: np.ndarray
     in_model_range: bool = True
+    in_liquid_band: bool = False
+    """The content is gas at the blend temperature but its stop pressure lies within the
+    gauge's and the thermometer's error of its dew pressure (thermo.liquid_band): weigh it."""
 
 
 @dataclass
@@ -133,15 +142,42 @@ def _evaluate(
     path = vessel_path(g, np.array(Ts), rhos)
     liquid = np.isin(path.phase, LIQUID_PHASES)
     k = 3 if T_cold is None else 4
+    # the table marks the band of a single gas too (as stop-table does); a mixture content's
+    # band is found at the blend temperature only (a dew-pressure search per temperature)
+    weigh = liquid[k:].copy()
+    if not getattr(g, "is_mixture", False):
+        weigh |= in_liquid_band(g, np.asarray(T_tab, dtype=float), path.P[k:])
     return Content(
         amounts_mol=n,
         stop_pressure_Pa=float(path.P[0]),
         dP_drho=float((path.P[1] - path.P[2]) / (2.0 * rho * DRHO_REL)),
         liquid=bool(liquid[0]),
         liquid_cold=None if T_cold is None else bool(liquid[3]),
-        table_P_Pa=np.where(liquid[k:], np.nan, path.P[k:]),
+        table_P_Pa=np.where(weigh, np.nan, path.P[k:]),
         table_liquid=liquid[k:],
+        in_band=bool(not liquid[0] and path.P[0] >= band_floor(g, T)),
     )
+
+
+_FLOORS: dict[tuple[object, ...], float] = {}
+
+
+def band_floor(g: Any, T: float) -> float:
+    """The liquid band's lower end [Pa abs] for a step's content ``g`` read at T [K]
+    (thermo.liquid_band; +inf where no liquid can form within the thermometer's error).
+    Kept per content composition and temperature: the steps of an evacuated vessel have the
+    same compositions whatever the charge."""
+    key = (
+        tuple(getattr(g, "component_names", (g.name,))),
+        tuple(np.round(np.atleast_1d(getattr(g, "z", 1.0)), 14)),
+        g.model,
+        round(float(T), 9),
+    )
+    if key not in _FLOORS:
+        if len(_FLOORS) > 4096:
+            _FLOORS.clear()
+        _FLOORS[key] = float(liquid_band_floor(g, np.array([float(T)]))[0][0])
+    return _FLOORS[key]
 
 
 def residual_amounts(f: MixtureFluid, residual: Any, V: float) -> np.ndarray:
@@ -200,7 +236,12 @@ def pressure_jacobian(steps_of: list[int], dntot_dP: np.ndarray, N: np.ndarray) 
 
 
 def _score(contents: list[Content]) -> tuple[int, int]:
-    return (sum(c.liquid for c in contents), sum(bool(c.liquid_cold) for c in contents))
+    """Steps that cannot be stopped by pressure (liquid, or in the liquid band) at the blend
+    temperature, then steps that would hold liquid in the cold: the fewer the better."""
+    return (
+        sum(c.liquid or c.in_band for c in contents),
+        sum(bool(c.liquid_cold) for c in contents),
+    )
 
 
 def blend_recipe(v: Any, charged_mass_kg: float) -> BlendRecipe:
@@ -289,6 +330,7 @@ def blend_recipe(v: Any, charged_mass_kg: float) -> BlendRecipe:
                 scale_reading_kg=None if b.tare_mass_kg is None else b.tare_mass_kg + mass,
                 table_P_Pa=c.table_P_Pa,
                 in_model_range=bool(f.validity.contains(T, c.stop_pressure_Pa)),
+                in_liquid_band=c.in_band,
             )
         )
     steps_of = [order.index(c) + 1 for c in names]
@@ -353,6 +395,15 @@ def blend_findings(r: BlendRecipe) -> list[Finding]:
             data["suggested_order"] = list(r.suggested_order)
         if s.liquid_present:
             out.append(Finding("blend-step-condenses", "fail", "", data))
+        if s.in_liquid_band:
+            out.append(
+                Finding(
+                    "blend-step-near-dew",
+                    "warning",
+                    "",
+                    {**data, "pressure_Pa": s.stop_pressure_Pa},
+                )
+            )
         if s.liquid_present_cold:
             out.append(
                 Finding(
@@ -387,7 +438,7 @@ def blend_findings(r: BlendRecipe) -> list[Finding]:
     return out
 
 
-BLEND_PLAN_LIMIT = "the blend recipe (every step gas at the blend temperature)"
+BLEND_PLAN_LIMIT = "the blend recipe (every step clear of its dew point at the blend temperature)"
 """The name of the limit a blend puts on the plan, as reports show it."""
 
 _PLAN_BISECTIONS = 14
@@ -398,22 +449,34 @@ _PLAN_GRID = 24
 
 
 def _blend_fails(v: Any, charge_kg: float) -> bool:
-    """True where the recipe for ``charge_kg`` [kg] cannot be computed or a step holds liquid at
-    the blend temperature (the ``blend-step-condenses`` failure)."""
-    r = blend_recipe(v, charge_kg)
-    return r.error is not None or any(s.liquid_present for s in r.steps)
+    """True where the recipe for ``charge_kg`` [kg] cannot be computed, or a step holds liquid
+    at the blend temperature (the ``blend-step-condenses`` failure) or stops in the liquid band
+    (``blend-step-near-dew``: the plan keeps the thermometer's and the gauge's margin)."""
+    return _fails(blend_recipe(v, charge_kg))
+
+
+def _fails(r: BlendRecipe) -> bool:
+    return r.error is not None or any(s.liquid_present or s.in_liquid_band for s in r.steps)
 
 
 def blend_bounded_plan(v: Any, plan_kg: float | None, resolution_kg: float) -> float | None:
     """The largest charge [kg] not above ``plan_kg`` whose recipe keeps every step gas at the
-    blend temperature, rounded down to ``resolution_kg``; None where no charge does.
+    blend temperature, its stop pressure below the liquid band, rounded down to
+    ``resolution_kg``; None where no charge does.
 
     A step condenses once its contents are denser than their dew density, so the failing
     charges lie above one bound. Without residual contents each step's composition is the same
     for every charge, and the bound is bracketed on grids of charges evaluated together; with
     them, by bisection. Either way the charge returned is one whose full recipe was computed
     not to condense (a plan followed keeps its blend)."""
-    if plan_kg is None or not _blend_fails(v, plan_kg):
+    if plan_kg is None:
+        return None
+    at_plan = blend_recipe(v, plan_kg)
+    if any(s.added_mass_kg < 0.0 for s in at_plan.steps):
+        # the residual already holds more of a component than the plan's charge asks for, and
+        # a smaller charge asks for less still: no charge within the limits can be made from it
+        return None
+    if not _fails(at_plan):
         return plan_kg
     lo = _gas_bound_batched(v, plan_kg, resolution_kg)
     if lo is None:
@@ -465,7 +528,8 @@ def _gas_bound_batched(v: Any, plan_kg: float, resolution_kg: float) -> float | 
 
 def _gas_at_blend_temperature(v: Any, charges_kg: np.ndarray) -> np.ndarray:
     """Per charge [kg] of an evacuated vessel: True where some order the recipe may take keeps
-    every step's contents gas at the blend temperature (the states of blend_recipe's steps)."""
+    every step's contents gas at the blend temperature, each stop pressure below the liquid
+    band (the states of blend_recipe's steps)."""
     f: MixtureFluid = v.fluid
     names = list(f.component_names)
     T = np.full(charges_kg.size, v.blend.temperature_K)
@@ -481,7 +545,9 @@ def _gas_at_blend_temperature(v: Any, charges_kg: np.ndarray) -> np.ndarray:
                 share = f.z * present  # each component's moles per mole of the full charge
                 g = _content_fluid(f, present, share)
                 rho = charges_kg / f.molar_mass * float(share.sum()) / v.water_capacity_m3
-                liquid_after[done] = np.isin(vessel_path(g, T, rho).phase, LIQUID_PHASES)
+                path = vessel_path(g, T, rho)
+                floor = band_floor(g, float(T[0]))
+                liquid_after[done] = np.isin(path.phase, LIQUID_PHASES) | (path.P >= floor)
             liquid |= liquid_after[done]
         ok |= ~liquid
         if ok.all():

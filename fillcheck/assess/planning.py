@@ -43,8 +43,8 @@ class StopRow:
 class BlendStopStep:
     """One step of a blend made in the vessel, by gas temperature: the component added, its
     mass and the contents' mass after it [kg], and the pressure to stop that step at
-    [Pa abs] at each of the table's gas temperatures (None where the contents hold liquid:
-    weigh that step)."""
+    [Pa abs] at each of the table's gas temperatures (None where the contents hold liquid, or
+    a single gas's stop pressure lies in its liquid band: weigh that step)."""
 
     component: str
     added_mass_kg: float
@@ -181,6 +181,8 @@ def _blend_steps(v: VesselInput, charge_kg: float, T: np.ndarray) -> dict[str, o
         g = _content_fluid(f, n > 0.0, n)
         path = vessel_path(g, T, np.full(T.shape, n.sum() / v.water_capacity_m3))
         liquid = np.isin(path.phase, LIQUID_PHASES)
+        if not getattr(g, "is_mixture", False):  # the band of a single gas, as in its own table
+            liquid |= in_liquid_band(g, T, path.P)
         steps.append(
             BlendStopStep(
                 component=s.component,

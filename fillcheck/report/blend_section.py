@@ -37,24 +37,30 @@ def blend_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
     if r.residual_mass_kg > 0.0:
         rows.append(("residual gas in the vessel", fmt.m(r.residual_mass_kg)))
     for k, s in enumerate(r.steps, start=1):
-        stop = (
-            "no stop pressure: liquid forms, go by weight"
-            if s.liquid_present
-            else fmt.p(s.stop_pressure_Pa)
-        )
+        if s.added_mass_kg < 0.0:
+            rows.append(
+                (
+                    f"step {k}: {s.component}",
+                    f"cannot be made: the residual holds {fmt.m(-s.added_mass_kg)} more "
+                    f"{s.component} than the target; vent or evacuate the vessel first",
+                )
+            )
+            continue
         scale = "" if s.scale_reading_kg is None else f"; scale reads {fmt.m(s.scale_reading_kg)}"
         rows.append(
             (
                 f"step {k}: {s.component}",
                 f"add {fmt.m(s.added_mass_kg)} (contents {fmt.m(s.cumulative_mass_kg)}){scale}; "
-                f"stop at {stop} (ideal-gas recipe: {fmt.p(s.ideal_stop_pressure_Pa)})",
+                f"{step_stop(s, fmt)} (ideal-gas recipe: {fmt.p(s.ideal_stop_pressure_Pa)})",
             )
         )
     if r.suggested_order is not None:
-        rows.append(("order that keeps every step gas", _order(r.suggested_order)))
+        rows.append(
+            ("order that keeps every step clear of its dew point", _order(r.suggested_order))
+        )
     mark_s = f" ({ASSUMED})" if r.default_scale else ""
     mark_g = f" ({ASSUMED})" if r.default_gauge else ""
-    rows.append(("scale resolution", f"{fmt.m(r.scale_resolution_kg)}{mark_s}"))
+    rows.append(("scale resolution", f"{_resolution(r.scale_resolution_kg, fmt)}{mark_s}"))
     rows.append(("gauge accuracy", f"{units.format_share(r.gauge_accuracy)} of reading{mark_g}"))
     for c, x in r.mole_fractions.items():
         by_p = (
@@ -72,6 +78,22 @@ def blend_rows(v: VesselAssessment, fmt: Formatter) -> list[tuple[str, str]]:
     rows.append(("tolerance method", TOLERANCE_METHOD))
     rows.append(("model", f"{v.model_name} ({v.model}) for every step's contents"))
     return rows
+
+
+def step_stop(s: Any, fmt: Formatter) -> str:
+    """Where a step stops: its pressure, or "weigh it" where the pressure does not tell."""
+    if s.liquid_present:
+        return "no stop pressure (liquid forms): go by weight"
+    if s.in_liquid_band:
+        return f"weigh it (the stop pressure, {fmt.p(s.stop_pressure_Pa)}, is near the dew point)"
+    return f"stop at {fmt.p(s.stop_pressure_Pa)}"
+
+
+def _resolution(x: float, fmt: Formatter) -> str:
+    """A scale's resolution with its own digits (a 5 g step is not "0.01 kg")."""
+    if fmt.system == "metric":
+        return f"{1000.0 * x:.6g} g" if x < 1.0 else f"{x:.6g} kg"
+    return f"{x / 0.45359237:.6g} lb"
 
 
 def blend_table_rows(v: VesselAssessment, fmt: Formatter) -> tuple[list[str], list[list[str]]]:
@@ -113,10 +135,12 @@ def blend_dict(v: VesselAssessment) -> dict[str, Any] | None:
                 "component": s.component,
                 "added_mass_kg": s.added_mass_kg,
                 "cumulative_mass_kg": s.cumulative_mass_kg,
-                "stop_pressure_Pa": s.stop_pressure_Pa,
+                # null where the contents hold liquid: no pressure tells that step
+                "stop_pressure_Pa": None if s.liquid_present else s.stop_pressure_Pa,
                 "ideal_stop_pressure_Pa": s.ideal_stop_pressure_Pa,
                 "liquid_present": s.liquid_present,
                 "liquid_present_cold": s.liquid_present_cold,
+                "in_liquid_band": s.in_liquid_band,
                 "scale_reading_kg": s.scale_reading_kg,
                 "stop_table_Pa": [_num(float(p)) for p in s.table_P_Pa],
             }

@@ -351,6 +351,15 @@ def _blend_step_condenses(d: dict[str, Any], w: Words) -> str:
     )
 
 
+def _blend_step_near_dew(d: dict[str, Any], w: Words) -> str:
+    return (
+        f"after step {d['step']} of the blend ({d['component']} added) the stop pressure "
+        f"{w.p(d['pressure_Pa'])} at {w.t(d['temperature_K'])} lies within the gauge's and the "
+        "thermometer's error of the contents' dew pressure: a gas a little colder than read "
+        "would condense, so the pressure does not tell the amount in; weigh this step"
+    )
+
+
 def _blend_step_condenses_cold(d: dict[str, Any], w: Words) -> str:
     return (
         f"the contents after step {d['step']} of the blend ({d['component']} added) would hold "
@@ -380,6 +389,7 @@ def _blend_not_computed(d: dict[str, Any], w: Words) -> str:
 WORDS: dict[str, Callable[[dict[str, Any], Words], str]] = {
     "blend-step-condenses": _blend_step_condenses,
     "blend-step-condenses-cold": _blend_step_condenses_cold,
+    "blend-step-near-dew": _blend_step_near_dew,
     "blend-residual-exceeds": _blend_residual_exceeds,
     "blend-not-computed": _blend_not_computed,
     "blend-outside-model-range": _blend_outside_model_range,

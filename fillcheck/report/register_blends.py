@@ -36,13 +36,21 @@ def register_blend_rows(
             rows.append([v.id, verdict, "—", "not computed (see blend-not-computed)"] + [""] * 5)
             continue
         for k, s in enumerate(r.steps, start=1):
-            stop = "weigh it (liquid forms)" if s.liquid_present else fmt.p(s.stop_pressure_Pa)
+            if s.liquid_present:
+                stop = "weigh it (liquid forms)"
+            elif s.in_liquid_band:
+                stop = "weigh it (near the dew point)"
+            else:
+                stop = fmt.p(s.stop_pressure_Pa)
+            added = (
+                fmt.m(s.added_mass_kg) if s.added_mass_kg >= 0.0 else "cannot be made: vent first"
+            )
             rows.append(
                 [
                     (v.id if r.order_given else f"{v.id} (order suggested)") if k == 1 else "",
                     verdict if k == 1 else "",
                     f"{k}: {s.component}",
-                    fmt.m(s.added_mass_kg),
+                    added,
                     fmt.m(s.cumulative_mass_kg),
                     fmt.t(r.temperature_K),
                     stop,

@@ -124,7 +124,8 @@ def resolve_blend(
     if spec.order is not None:
         got = [_component(t, names, "blend.order", where) for t in spec.order]
         if len(set(got)) != len(got):
-            raise where.fail("blend.order", "names a component twice; name each once")
+            twice = next(n for n in got if got.count(n) > 1)
+            raise where.fail("blend.order", f"names {twice} twice; name each component once")
         missing = [n for n in names if n not in got]
         if missing:
             raise where.fail(
