@@ -649,6 +649,10 @@ def test_stop_table_gives_each_blend_step_by_gas_temperature() -> None:
             assert (p is None) == (q is None)
             if p is not None:
                 assert q == pytest.approx(p, rel=1e-9)
+    # the planned 15.75 kg is above the plan: the steps of the largest charge come as well
+    largest = st["blend_steps_largest"]
+    assert [s["component"] for s in largest] == st["blend_order"]
+    assert largest[-1]["cumulative_mass_kg"] == pytest.approx(st["max_safe_charge_kg"], abs=1e-9)
     # step 1 (carbon dioxide alone, 6.3 kg in 50 L) holds liquid at 5 °C, the blend temperature
     assert st["blend_steps"][0]["liquid_at_blend_temperature"] is True
     assert st["blend_steps"][0]["stop_pressure_Pa"][T_stop.index(pytest.approx(278.15))] is None

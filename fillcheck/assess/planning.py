@@ -9,6 +9,7 @@ pressure and gas temperature give the charge, ρ(T, P), and from it the settled 
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
@@ -86,6 +87,9 @@ class StopTable:
     blend_temperature_K: float | None = None
     blend_steps: list[BlendStopStep] | None = None
     """Each blend step's stop pressure at the table's gas temperatures (``rows``)."""
+    blend_steps_largest: list[BlendStopStep] | None = None
+    """The same for the largest charge within the limits, where the planned charge is above it
+    (the recipe to fill instead)."""
 
 
 def fill_temperatures(v: VesselInput, T_ref: float, step_K: float) -> tuple[np.ndarray, float]:
@@ -141,6 +145,8 @@ def stop_table(v: VesselInput, T_ref: float, temperatures_K: np.ndarray) -> Stop
         for i, (t, p, ph) in enumerate(zip(path.T, path.P, path.phase, strict=True))
     ]
     M = f.molar_mass
+    over = _over_plan(v, T_ref, rho)
+    largest = None if safe is None else safe.density_mol * M * v.water_capacity_m3
     return StopTable(
         vessel_id=v.id,
         gas=f.name,
@@ -154,23 +160,44 @@ def stop_table(v: VesselInput, T_ref: float, temperatures_K: np.ndarray) -> Stop
         max_safe_charge_kg=None if safe is None else safe.density_mol * M * v.water_capacity_m3,
         governing_limit=None if safe is None else safe.governing,
         rows=rows,
-        over_plan=_over_plan(v, T_ref, rho),
+        over_plan=over,
         by_weight=v.fill_kind == "mass",
         tare_mass_kg=None if v.marking is None else v.marking.tare_mass_kg,
-        **_blend_steps(v, rho * M * v.water_capacity_m3, T),
+        **_blend_steps(v, rho * M * v.water_capacity_m3, T, largest if over else None),
     )
 
 
-def _blend_steps(v: VesselInput, charge_kg: float, T: np.ndarray) -> dict[str, object]:
+def _blend_steps(
+    v: VesselInput, charge_kg: float, T: np.ndarray, largest_kg: float | None
+) -> dict[str, object]:
     """The StopTable fields of a blend: the recipe of the planned charge (assess.blend), each
-    step's contents rebuilt from its masses and followed over the gas temperatures T [K]."""
+    step followed over the gas temperatures T [K]; and the same for ``largest_kg`` [kg], the
+    largest charge within the limits, where the plan is above it."""
     if getattr(v, "blend", None) is None:
         return {}
-    from fillcheck.assess.blend import LIQUID_PHASES, _content_fluid, blend_recipe
+    from fillcheck.assess.blend import blend_recipe
 
     r = blend_recipe(v, charge_kg)
     if r.error is not None:
         return {}
+    out: dict[str, object] = {
+        "blend_order": list(r.order),
+        "blend_temperature_K": r.temperature_K,
+        "blend_steps": _step_pressures(v, r, T),
+    }
+    if largest_kg is not None and largest_kg > 0.0:
+        r2 = blend_recipe(v, largest_kg)
+        if r2.error is None and list(r2.order) == list(r.order):
+            out["blend_steps_largest"] = _step_pressures(v, r2, T)
+    return out
+
+
+def _step_pressures(v: VesselInput, r: Any, T: np.ndarray) -> list[BlendStopStep]:
+    """Each step of recipe ``r``: its contents rebuilt from the step masses and followed over
+    the gas temperatures T [K] ("weigh it", None, where they hold liquid or a single gas lies in
+    its liquid band)."""
+    from fillcheck.assess.blend import LIQUID_PHASES, _content_fluid
+
     f = v.fluid
     names = list(f.component_names)
     masses = np.array([r.residual_masses_kg.get(c, 0.0) for c in names])
@@ -194,11 +221,7 @@ def _blend_steps(v: VesselInput, charge_kg: float, T: np.ndarray) -> dict[str, o
                 liquid_at_blend_temperature=s.liquid_present,
             )
         )
-    return {
-        "blend_order": list(r.order),
-        "blend_temperature_K": r.temperature_K,
-        "blend_steps": steps,
-    }
+    return steps
 
 
 def _over_plan(v: VesselInput, T_ref: float, rho: float) -> bool:

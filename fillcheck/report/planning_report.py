@@ -163,15 +163,37 @@ def _stop_tables(
 def _blend_stop_table(
     console: Console, st: StopTable, p: Any, t: Any, system: units.UnitSystem
 ) -> None:
-    """Each blend step's stop pressure by gas temperature (the contents after that step)."""
-    steps = st.blend_steps or []
-    console.print(
-        Text(
-            f"Blend made in the vessel ({', then '.join(st.blend_order or [])}; the recipe is "
-            f"read at {t(st.blend_temperature_K)}): stop each step at",
-            style="bold",
-        )
+    """Each blend step's stop pressure by gas temperature (the contents after that step), for
+    the planned charge and, where that is above the plan, for the largest charge."""
+    head = (
+        f"Blend made in the vessel ({', then '.join(st.blend_order or [])}; the recipe is "
+        f"read at {t(st.blend_temperature_K)})"
     )
+    _step_table(console, st, st.blend_steps or [], f"{head}: stop each step at", p, t, system)
+    if st.blend_steps_largest:
+        largest = units.format_mass(st.max_safe_charge_kg or 0.0, system, down=True)
+        _step_table(
+            console,
+            st,
+            st.blend_steps_largest,
+            f"For the largest charge within the limits ({largest}), fill this instead: stop "
+            "each step at",
+            p,
+            t,
+            system,
+        )
+
+
+def _step_table(
+    console: Console,
+    st: StopTable,
+    steps: list[Any],
+    title: str,
+    p: Any,
+    t: Any,
+    system: units.UnitSystem,
+) -> None:
+    console.print(Text(title, style="bold"))
     table = Table(show_edge=True)
     table.add_column("gas temperature", justify="right")
     for k, s in enumerate(steps, start=1):
