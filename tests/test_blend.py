@@ -732,3 +732,25 @@ def test_recipe_rows_say_what_cannot_be_read_or_made() -> None:
     rows2 = dict(blend_rows(SimpleNamespace(blend=r2, model_name="m", model="reference"), fmt))
     said = rows2["step 2: carbon dioxide"]
     assert said.startswith("cannot be made") and "vent" in said and "-" not in said
+
+
+@pytest.mark.parametrize("column", ["composition_basis", "blend_order", "blend_temperature"])
+def test_register_refuses_mixture_columns_on_a_single_gas_row(tmp_path, column) -> None:
+    """A row whose gas cell names one gas and fills a column that goes with a mixture only is
+    refused in the register's terms: row, vessel and that column, with the cell syntax of a
+    mixture (not the scenario file's table syntax)."""
+    from fillcheck.scenario.register import load_register
+
+    cells = {"composition_basis": "mole", "blend_order": "argon > nitrogen",
+             "blend_temperature": "15 degC"}  # fmt: skip
+    reg = tmp_path / "one.csv"
+    reg.write_text(
+        "id,gas,water_capacity,settled_pressure,fill_temperature,max_temperature,"
+        f"allowable_pressure,{column}\nAR-1,argon,50 L,200 barg,15 degC,50 degC,300 barg,"
+        f"{cells[column]}\n"
+    )
+    with pytest.raises(InputError) as e:
+        load_register(reg)
+    msg = str(e.value)
+    assert msg.startswith(f"one.csv: row 2 (vessel 'AR-1'), column '{column}': "), msg
+    assert "'nitrogen 70 % + carbon dioxide 30 %'" in msg and "{" not in msg

@@ -223,12 +223,31 @@ def row_vessel(header: list[str], row: list[str], name: str, n: int) -> dict[str
         target[path[-1]] = cell  # type: ignore[index]
     if isinstance(vessel.get("gas"), str) and "+" in str(vessel["gas"]):
         vessel["gas"] = _mixture_cell(str(vessel["gas"]), name, n)
+    elif isinstance(vessel.get("gas"), str):
+        _single_gas_row(header, row, str(vessel["gas"]), name, n)
     blend = vessel.get("blend")
     if isinstance(blend, dict) and "order" in blend:
         blend["order"] = _order_cell(str(blend["order"]), name, n)
     for table in ("fill", "storage", "limits"):
         vessel.setdefault(table, {})
     return vessel
+
+
+_MIXTURE_ONLY = ("composition_basis", "blend_order", "blend_temperature")
+
+
+def _single_gas_row(header: list[str], row: list[str], gas: str, name: str, n: int) -> None:
+    """Refuse, in the register's own terms, the columns that go with a mixture only on a row
+    whose gas cell names one gas."""
+    given = [c for c, cell in zip(header, row, strict=True) if cell and c in _MIXTURE_ONLY]
+    if given:
+        vid = next((cell for c, cell in zip(header, row, strict=True) if c == "id"), "")
+        who = f" (vessel '{vid}')" if vid else ""
+        raise InputError(
+            f"{name}: row {n}{who}, column '{given[0]}': goes with a mixture only, but the gas "
+            f"cell names one gas, '{gas}'; leave the cell empty, or give the mixture in the gas "
+            "cell, e.g. 'nitrogen 70 % + carbon dioxide 30 %'"
+        )
 
 
 def _order_cell(cell: str, name: str, row: int) -> list[str]:
