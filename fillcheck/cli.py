@@ -158,6 +158,8 @@ def check(
         _check_jsonl(file, jsonl_out, force, units, jobs)
     if jobs != 1:
         _refuse("--jobs applies to --jsonl only; add --jsonl OUT, or leave --jobs out")
+    if json_out and html_out is None and areas_file is None and file.suffix.lower() == ".csv":
+        _check_json_streamed(file, units)
     if html_out is not None:
         from fillcheck.report.output_file import destination_problem
 
@@ -268,6 +270,78 @@ def _check_jsonl(file: Path, out: str, force: bool, units: Units | None, jobs: i
     )
     every_pass = total == counts["pass"] and all(v == "pass" for v in area_verdicts)
     raise typer.Exit(EXIT_PASS if every_pass else EXIT_FINDINGS)
+
+
+def _check_json_streamed(file: Path, units: Units | None) -> None:
+    """``check REGISTER.csv --json``: the whole result's JSON document, its vessels written as
+    they are computed a chunk at a time (fillcheck.records), so memory does not grow with the
+    register. It is spooled to a temporary file and copied to stdout once complete: a refused
+    row prints its sentence and nothing else. The keys are those of the JSON result; the
+    verdict and the permit-file record, known at the end, come after the vessels."""
+    import hashlib
+    import json
+    import shutil
+    import tempfile
+    from types import SimpleNamespace
+
+    from fillcheck import __version__
+    from fillcheck import units as u
+    from fillcheck.records import stream_register
+    from fillcheck.report.permit_record import make_record, record_json
+    from fillcheck.scenario.register import read_rows
+    from fillcheck.scenario.schema import ScenarioSpec
+
+    defaults = {k: f.default for k, f in ScenarioSpec.model_fields.items()}
+
+    system = units.value if units is not None else "metric"
+    counts = {"pass": 0, "fail": 0, "review": 0}
+    gases: dict[tuple[str, ...], Any] = {}
+    with tempfile.TemporaryFile("w+", encoding="utf-8") as spool:
+        with _guarded("the check", file):
+            digest = hashlib.sha256()
+            with file.open("rb") as fh:
+                for block in iter(lambda: fh.read(1 << 20), b""):
+                    digest.update(block)
+            head = {
+                "fillcheck_version": __version__,
+                "source": neutralise(file.name),
+                "title": None,
+                # a register has no top-level keys: the scenario file's defaults hold
+                "reference_temperature_K": u.parse_temperature(defaults["reference_temperature"]),
+                "atmospheric_pressure_Pa": u.parse_pressure(defaults["atmospheric_pressure"]),
+            }
+            spool.write(json.dumps(head, indent=2, ensure_ascii=False)[:-2] + ',\n  "vessels": [')
+            for i, v in enumerate(stream_register(read_rows(file), file.name, system)):
+                text = json.dumps(v, indent=2, ensure_ascii=False).replace("\n", "\n    ")
+                spool.write(("\n    " if i == 0 else ",\n    ") + text)
+                counts[v["verdict"]] += 1
+                names = tuple(v["composition"]) if v.get("composition") else (str(v["gas"]),)
+                gases.setdefault(names, _gas_stand_in(names, bool(v.get("composition"))))
+            record = make_record(
+                SimpleNamespace(
+                    vessels=[SimpleNamespace(fluid=g) for g in gases.values()],
+                    input_sha256=digest.hexdigest(),
+                    site=None,
+                    permit_number=None,
+                    prepared_by=None,
+                ),
+                neutralise(str(file)),
+            )
+        verdict = "fail" if counts["fail"] else ("review" if counts["review"] else "pass")
+        tail = {"areas": [], "verdict": verdict, **record_json(record)}
+        spool.write("\n  ],\n" + json.dumps(tail, indent=2, ensure_ascii=False)[2:] + "\n")
+        spool.seek(0)
+        shutil.copyfileobj(spool, sys.stdout)
+    raise typer.Exit(EXIT_PASS if verdict == "pass" else EXIT_FINDINGS)
+
+
+def _gas_stand_in(names: tuple[str, ...], mixture: bool) -> Any:
+    """What report.permit_record.gas_data_files reads of a vessel's fluid, from its JSON."""
+    from types import SimpleNamespace
+
+    if mixture:
+        return SimpleNamespace(is_mixture=True, component_names=names)
+    return SimpleNamespace(is_mixture=False, name=names[0])
 
 
 def _areas(path: Path) -> Any:

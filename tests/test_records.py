@@ -197,3 +197,49 @@ def test_jobs_option_through_the_command_line(tmp_path: Path) -> None:
     )
     r = _cli("check", str(toml), "--jsonl", "-", "--jobs", "2", cwd=tmp_path)
     assert r.returncode == 2 and "registers (.csv)" in r.stderr and r.stdout == ""
+
+
+def test_register_json_is_streamed_and_equals_the_whole_result(tmp_path: Path) -> None:
+    """`check REGISTER.csv --json` writes the vessels as they are computed (memory bounded by a
+    chunk, INTERFACES §9) and gives the document of the whole-register result: every key and
+    value the same (the report id and its time aside), verdict and record after the vessels.
+    A refused row prints its sentence only: nothing on stdout, exit 2."""
+    from fillcheck.assess import assess_scenario
+    from fillcheck.report.json_report import scenario_dict
+    from fillcheck.report.permit_record import make_record
+    from fillcheck.scenario.register import load_register
+
+    reg = tmp_path / "fleet.csv"
+    head = "id,gas,water_capacity,fill_pressure,fill_mass,fill_temperature,max_temperature,"
+    head += "allowable_pressure\n"
+    reg.write_text(
+        head
+        + "N-1,nitrogen,50 L,200 barg,,15 degC,50 degC,300 barg\n"
+        + "C-1,carbon dioxide,50 L,,40 kg,15 degC,50 degC,150 barg\n"
+        + "M-1,argon 82 % + carbon dioxide 18 %,50 L,200 barg,,15 degC,50 degC,300 barg\n"
+    )
+    run = subprocess.run(
+        [sys.executable, "-m", "fillcheck", "check", str(reg), "--json"],
+        capture_output=True, text=True, timeout=300,
+    )  # fmt: skip
+    assert run.returncode == 1, run.stderr  # the overfilled carbon dioxide fails
+    got = json.loads(run.stdout)
+    sc = load_register(reg)
+    whole = json.loads(
+        json.dumps(scenario_dict(assess_scenario(sc, is_register=True), make_record(sc, reg)))
+    )
+    assert sorted(got) == sorted(whole)
+    for k in whole:
+        if k not in ("report_id", "generated_at"):
+            assert got[k] == whole[k], k
+    keys = list(got)
+    assert keys.index("verdict") > keys.index("vessels")  # known once every vessel is in
+    bad = tmp_path / "bad.csv"
+    bad.write_text(head + "N-1,nitrogen,50 L,200 barg,,15 degC,50 degC,300 barg\n"
+                   + "N-2,nitrogen,50 L,200 bar,,15 degC,50 degC,300 barg\n")  # fmt: skip
+    run = subprocess.run(
+        [sys.executable, "-m", "fillcheck", "check", str(bad), "--json"],
+        capture_output=True, text=True, timeout=300,
+    )  # fmt: skip
+    assert run.returncode == 2 and run.stdout == ""
+    assert "row 3 (vessel 'N-2'), column 'fill_pressure'" in run.stderr
