@@ -182,7 +182,8 @@ REGISTER_HEADER = (
 def _summary_rows(text: str) -> dict[str, str]:
     """vessel id -> its margin in the register summary table of a terminal report."""
     head = text.index("Every failing vessel, then the smallest margins")
-    end = text.index("Failing and review vessels in detail")
+    end = text.find("Failing and review vessels in detail")  # printed only where some are
+    end = end if end >= 0 else text.index("Overall verdict")
     out = {}
     for line in text[head:end].splitlines():
         cells = [c.strip() for c in line.strip().strip("│").split("│")]

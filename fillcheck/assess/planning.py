@@ -52,6 +52,9 @@ class BlendStopStep:
     cumulative_mass_kg: float
     stop_pressure_Pa: list[float | None]
     liquid_at_blend_temperature: bool
+    cannot_be_made: bool = False
+    """The residual already holds more of the component than the target (vent first): the
+    step has no stop pressure."""
 
 
 @dataclass(frozen=True)
@@ -203,6 +206,18 @@ def _step_pressures(v: VesselInput, r: Any, T: np.ndarray) -> list[BlendStopStep
     masses = np.array([r.residual_masses_kg.get(c, 0.0) for c in names])
     steps = []
     for s in r.steps:
+        if s.added_mass_kg < 0.0:
+            steps.append(
+                BlendStopStep(
+                    s.component,
+                    s.added_mass_kg,
+                    s.cumulative_mass_kg,
+                    [None] * T.size,
+                    s.liquid_present,
+                    cannot_be_made=True,
+                )
+            )
+            continue
         masses[names.index(s.component)] += s.added_mass_kg
         n = masses / f.molar_masses
         g = _content_fluid(f, n > 0.0, n)
@@ -254,6 +269,9 @@ class Reading:
     thermometer_uncertainty_K: float = THERMOMETER_UNCERTAINTY_K
     may_exceed_plan: bool = False
     """Whether the top of the charge band is above the largest safe charge."""
+    blended: bool = False
+    """The vessel is blended in the cylinder ([vessel.blend]): the reading is of the finished
+    mixture; part-way through the blend the contents are not that mixture."""
 
 
 def _source(f) -> str:
@@ -332,4 +350,5 @@ def read_gauge(
         gauge_uncertainty=gauge,
         thermometer_uncertainty_K=dT,
         may_exceed_plan=safe is None or float(rho_band.max()) > safe.density_mol,
+        blended=getattr(v, "blend", None) is not None,
     )

@@ -206,7 +206,9 @@ def _step_table(
         table.add_row(
             t(r.gas_temperature_K),
             *(
-                "weigh it" if s.stop_pressure_Pa[i] is None else p(s.stop_pressure_Pa[i])
+                "cannot be made"
+                if s.cannot_be_made
+                else ("weigh it" if s.stop_pressure_Pa[i] is None else p(s.stop_pressure_Pa[i]))
                 for s in steps
             ),
         )
@@ -306,6 +308,15 @@ def _reading(
                 "Within the gauge's and the thermometer's errors the charge may be over the "
                 "largest charge within the limits: weigh it before storing it.",
                 style="bold red",
+            )
+        )
+    if r.blended:
+        console.print(
+            Text(
+                "This vessel is blended in the cylinder: the reading is of the finished "
+                "mixture. Part-way through the blend the contents are not that mixture; read a "
+                "step against its stop pressure in the recipe (check or stop-table).",
+                style="bold",
             )
         )
     console.print(f"Model: {r.model_name} ({r.model}); {r.model_source}")

@@ -211,10 +211,11 @@ def _render(
         shown = summary["flagged"][:DETAIL_LIMIT]
         _print_register_blends(console, a.vessels, shown, fmt)
         rest = len(summary["flagged"]) - len(shown)
-        console.print(
-            "Failing and review vessels in detail, worst first"
-            + (f" (the first {len(shown)}; {rest} more in --json or --html)." if rest else ".")
-        )
+        if shown:
+            console.print(
+                "Failing and review vessels in detail, worst first"
+                + (f" (the first {len(shown)}; {rest} more in --json or --html)." if rest else ".")
+            )
     for v in shown:
         console.print(Rule())
         console.print(_vessel_block(v, fmt))
