@@ -754,3 +754,31 @@ def test_register_refuses_mixture_columns_on_a_single_gas_row(tmp_path, column) 
     msg = str(e.value)
     assert msg.startswith(f"one.csv: row 2 (vessel 'AR-1'), column '{column}': "), msg
     assert "'nitrogen 70 % + carbon dioxide 30 %'" in msg and "{" not in msg
+
+
+def test_stop_table_and_reading_of_a_blend_that_cannot_be_made(tmp_path) -> None:
+    """A 40 barg carbon dioxide residual is more carbon dioxide than argon 82 % + carbon dioxide
+    18 % to 200 barg needs: stop-table gives that step no stop pressure ("cannot be made"),
+    and a gauge reading on a blended vessel says it reads the finished mixture."""
+    import numpy as np
+
+    from fillcheck.assess.planning import read_gauge, stop_table
+    from fillcheck.scenario.resolve import load_scenario
+
+    p = tmp_path / "res.toml"
+    p.write_text(
+        BASE.format(
+            gas='{ argon = "82 %", "carbon dioxide" = "18 %" }',
+            blend='temperature = "15 degC"\norder = ["argon", "carbon dioxide"]\n'
+            'residual = { pressure = "40 barg", temperature = "15 degC", gas = "carbon dioxide" }',
+        )
+    )
+    sc = load_scenario(p)
+    v = sc.vessels[0]
+    st = stop_table(v, sc.reference_temperature_K, np.array([283.15, 288.15]))
+    co2 = st.blend_steps[1]
+    assert co2.component == "carbon dioxide" and co2.cannot_be_made
+    assert co2.stop_pressure_Pa == [None, None] and co2.added_mass_kg < 0.0
+    assert not st.blend_steps[0].cannot_be_made and st.blend_steps[0].stop_pressure_Pa[1] > 0
+    r = read_gauge(v, sc.reference_temperature_K, 150e5, 288.15, 0.05, 2.0)
+    assert r.blended
