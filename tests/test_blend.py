@@ -710,7 +710,7 @@ def test_recipe_rows_say_what_cannot_be_read_or_made() -> None:
     """A condensing step has no stop pressure in JSON (null, with liquid_present), a residual
     richer than the target gives no negative addition but "cannot be made", and a 5 g scale
     resolution is printed as 5 g (not rounded to 0.01 kg)."""
-    from fillcheck.report.blend_section import blend_dict, blend_rows
+    from fillcheck.report.blend_section import blend_dict, blend_rows, blend_table_rows
     from fillcheck.report.content import Formatter
 
     fmt = Formatter("metric", P_ATM)
@@ -732,6 +732,28 @@ def test_recipe_rows_say_what_cannot_be_read_or_made() -> None:
     rows2 = dict(blend_rows(SimpleNamespace(blend=r2, model_name="m", model="reference"), fmt))
     said = rows2["step 2: carbon dioxide"]
     assert said.startswith("cannot be made") and "vent" in said and "-" not in said
+    a2 = SimpleNamespace(blend=r2, model_name="m", model="reference")
+    _, table = blend_table_rows(a2, fmt)
+    assert all(row[2] == "cannot be made" for row in table)  # no pressure copied from step 1
+    assert blend_dict(a2)["steps"][1]["stop_pressure_Pa"] is None
+
+
+def test_a_blend_tare_that_differs_from_the_marked_one_is_refused(tmp_path) -> None:
+    """The recipe's scale readings and the fill plan's stop by weight must use one tare: a
+    [vessel.blend] tare that differs from the marked tare_mass is refused in one sentence."""
+    p = tmp_path / "tare.toml"
+    p.write_text(
+        BASE.format(gas=MIX, blend='temperature = "15 degC"\ntare = "60.0 kg"').replace(
+            "[vessel.blend]", 'marking = { tare_mass = "58.2 kg" }\n\n[vessel.blend]'
+        )
+    )
+    with pytest.raises(InputError) as e:
+        load_scenario(p)
+    msg = str(e.value)
+    assert msg.startswith("tare.toml: vessel 'B-1', field 'blend.tare': '60.0 kg' differs"), msg
+    assert "58.2 kg" in msg and "\n" not in msg
+    p.write_text(p.read_text().replace('tare = "60.0 kg"', 'tare = "58.2 kg"'))
+    assert load_scenario(p).vessels[0].blend.tare_mass_kg == pytest.approx(58.2)
 
 
 @pytest.mark.parametrize("column", ["composition_basis", "blend_order", "blend_temperature"])

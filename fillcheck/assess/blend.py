@@ -328,7 +328,8 @@ def blend_recipe(v: Any, charged_mass_kg: float) -> BlendRecipe:
                 liquid_present=c.liquid,
                 liquid_present_cold=c.liquid_cold,
                 scale_reading_kg=None if b.tare_mass_kg is None else b.tare_mass_kg + mass,
-                table_P_Pa=c.table_P_Pa,
+                # a step the residual already exceeds is not made: no pressure to stop it at
+                table_P_Pa=c.table_P_Pa if target[i] >= res[i] else np.full(T_tab.size, np.nan),
                 in_model_range=bool(f.validity.contains(T, c.stop_pressure_Pa)),
                 in_liquid_band=c.in_band,
             )

@@ -93,7 +93,7 @@ def _resolution(x: float, fmt: Formatter) -> str:
     """A scale's resolution with its own digits (a 5 g step is not "0.01 kg")."""
     if fmt.system == "metric":
         return f"{1000.0 * x:.6g} g" if x < 1.0 else f"{x:.6g} kg"
-    return f"{x / 0.45359237:.6g} lb"
+    return f"{x / 0.45359237:.3g} lb"
 
 
 def blend_table_rows(v: VesselAssessment, fmt: Formatter) -> tuple[list[str], list[list[str]]]:
@@ -107,7 +107,10 @@ def blend_table_rows(v: VesselAssessment, fmt: Formatter) -> tuple[list[str], li
         cells = [fmt.t(float(T))]
         for s in r.steps:
             P = float(s.table_P_Pa[i])
-            cells.append("weigh it" if math.isnan(P) else fmt.p(P))
+            if s.added_mass_kg < 0.0:
+                cells.append("cannot be made")
+            else:
+                cells.append("weigh it" if math.isnan(P) else fmt.p(P))
         rows.append(cells)
     return head, rows
 
@@ -136,7 +139,9 @@ def blend_dict(v: VesselAssessment) -> dict[str, Any] | None:
                 "added_mass_kg": s.added_mass_kg,
                 "cumulative_mass_kg": s.cumulative_mass_kg,
                 # null where the contents hold liquid: no pressure tells that step
-                "stop_pressure_Pa": None if s.liquid_present else s.stop_pressure_Pa,
+                "stop_pressure_Pa": (
+                    None if s.liquid_present or s.added_mass_kg < 0.0 else s.stop_pressure_Pa
+                ),
                 "ideal_stop_pressure_Pa": s.ideal_stop_pressure_Pa,
                 "liquid_present": s.liquid_present,
                 "liquid_present_cold": s.liquid_present_cold,

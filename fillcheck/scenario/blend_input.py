@@ -145,6 +145,13 @@ def resolve_blend(
         tare = where.run("blend.tare", units.parse_mass, spec.tare)
         if not tare > 0.0:
             raise where.fail("blend.tare", f"'{spec.tare}' must be larger than zero")
+        if tare_mass_kg is not None and abs(tare - tare_mass_kg) > 1e-9 * tare_mass_kg:
+            raise where.fail(
+                "blend.tare",
+                f"'{spec.tare}' differs from the marked tare_mass ({tare_mass_kg:.6g} kg), so "
+                "the recipe and the fill plan would stop at different scale readings; give one "
+                "of them (the marked tare serves the blend too)",
+            )
     residual = None
     if spec.residual is not None:
         r = spec.residual
