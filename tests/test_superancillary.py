@@ -155,17 +155,20 @@ def test_expansions_agree_with_the_solver_dense(name: str) -> None:
 
 def test_agreement_is_1e10_to_within_a_kelvin_of_tc() -> None:
     """The floor allowance above loosens the 1e-10 only close to Tc: for every fluid but R22 the
-    comparison is at 1e-10 itself up to 1.2 K below Tc (measured when written: nitrogen to
-    Tc − 0.03 K, carbon dioxide Tc − 0.75 K, R152a Tc − 1.09 K, the widest). R22's equation
-    leaves 1e-11 of round-off in the solver's densities everywhere (its liquid terms cancel) and
-    4e-10 K/(Tc − T) near Tc: it is compared at ten times that."""
+    comparison is at 1e-10 itself up to 3.5 K below Tc. The floor is round-off, measured from
+    one pair of solves, so it moves with the order in which the equation's terms are summed
+    (measured with the one-table evaluation of models/helmholtz_terms.py: nitrogen to
+    Tc − 0.10 K, carbon dioxide Tc − 0.35 K, sulfur hexafluoride Tc − 2.1 K, R152a Tc − 3.3 K,
+    the widest; with the per-block sums before it, the widest was 1.1 K). R22's equation leaves
+    1e-11 of round-off in the solver's densities everywhere (its liquid terms cancel) and
+    2e-10 to 4e-10 K/(Tc − T) near Tc: it is compared at ten times that."""
     for name in REFERENCE:
         far, C = _floor_constant(name)
         reach_K = FLOOR_TIMES * C / SOLVER_TOL
         if name == "R22":
             assert FLOOR_TIMES * far <= 2.0 * SOLVER_TOL and reach_K <= 60.0, (name, far, C)
         else:
-            assert FLOOR_TIMES * far <= SOLVER_TOL and reach_K <= 1.2, (name, far, C)
+            assert FLOOR_TIMES * far <= SOLVER_TOL and reach_K <= 3.5, (name, far, C)
 
 
 def _coolprop_pair(name: str, T: float) -> tuple[float, float, float, float]:

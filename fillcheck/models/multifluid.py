@@ -53,13 +53,9 @@ import numpy as np
 
 from fillcheck.errors import ModelUnavailableError
 from fillcheck.models.base import FloatArray, ModelInfo, ResidualDerivatives
+from fillcheck.models.helmholtz_terms import ReferenceDataError, TermTable, block_arrays
 from fillcheck.models.multiparameter import (
     MultiparameterModel,
-    ReferenceDataError,
-    _arrays,
-    _Gaussian,
-    _Power,
-    _Separable,
     available_reference_equations,
     load_reference_equation,
 )
@@ -78,44 +74,18 @@ class MixtureDataError(ReferenceDataError):
     """The binary-parameter data file is malformed (a defect of the shipped data)."""
 
 
-class _GergExponential(_Separable):
-    """n δ^d τ^t exp(−η(δ − ε)² − β(δ − γ)) (the GERG-2008 departure terms of
-    Kunz, Wagner (2012))."""
-
-    def __init__(self, n, d, t, eta, eps, beta, gamma) -> None:
-        super().__init__(n, d, t)
-        self.eta, self.eps, self.beta, self.gamma = eta, eps, beta, gamma
-
-    def delta_part(self, delta: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
-        lD, kD, dkD = super().delta_part(delta)
-        e, b, x = self.eta, self.beta, delta - self.eps
-        return (
-            lD - e * x * x - b * (delta - self.gamma),
-            kD - 2.0 * e * delta * x - b * delta,
-            dkD - 2.0 * e * delta * (2.0 * delta - self.eps) - b * delta,
-        )
+_DEPARTURE_FORMS = ("power", "gerg_exponential", "gaussian")
 
 
-_DEPARTURE_TYPES: dict[str, tuple[str, ...]] = {
-    "power": ("n", "d", "t", "l"),
-    "gerg_exponential": ("n", "d", "t", "eta", "epsilon", "beta", "gamma"),
-    "gaussian": ("n", "d", "t", "eta", "epsilon", "beta", "gamma"),
-}
-
-
-def _departure_block(block: dict[str, Any], where: str) -> Any:
+def _departure_block(block: dict[str, Any], where: str) -> tuple[str, dict[str, np.ndarray]]:
+    """A departure function's term block: its form and coefficient arrays."""
     kind = block.get("type")
-    if kind not in _DEPARTURE_TYPES:
+    if kind not in _DEPARTURE_FORMS:
         raise MixtureDataError(f"{where}: unknown departure term type {kind!r}")
-    keys = _DEPARTURE_TYPES[kind]
     try:
-        arr = _arrays(block, keys, where)
+        return block_arrays(block, where)
     except ReferenceDataError as exc:
         raise MixtureDataError(str(exc)) from None
-    if kind == "power":
-        return _Power(arr["n"], arr["d"], arr["t"], np.ones_like(arr["n"]), arr["l"])
-    cls = _GergExponential if kind == "gerg_exponential" else _Gaussian
-    return cls(*(arr[k] for k in keys))
 
 
 @dataclass(frozen=True)
@@ -256,18 +226,24 @@ def covered(names: Sequence[str], *, allow_estimates: bool = False) -> bool:
     )
 
 
-def _pair_factor(xi: FloatArray, xj: FloatArray, beta: float) -> tuple[FloatArray, ...]:
-    """f = xᵢxⱼ(xᵢ + xⱼ)/(β²xᵢ + xⱼ) and its partial derivatives in xᵢ and xⱼ [-].
+def _pair_factor(
+    xi: FloatArray, xj: FloatArray, beta: float, derivatives: bool = True
+) -> tuple[FloatArray, ...]:
+    """f = xᵢxⱼ(xᵢ + xⱼ)/(β²xᵢ + xⱼ) and (if asked) its partial derivatives in xᵢ and xⱼ [-].
 
-    Where xᵢ = xⱼ = 0 the pair contributes nothing, and f and both derivatives are 0.
+    Where xᵢ = xⱼ = 0 the pair contributes nothing, and f and both derivatives are 0 (every
+    numerator is 0 there, so the denominator is taken as 1).
     """
-    D = beta * beta * xi + xj
-    ok = D != 0.0
-    Ds = np.where(ok, D, 1.0)
-    s = xi + xj
-    f = np.where(ok, xi * xj * s / Ds, 0.0)
-    fi = np.where(ok, xj * (2.0 * xi + xj) / Ds - beta * beta * xi * xj * s / Ds**2, 0.0)
-    fj = np.where(ok, xi * (xi + 2.0 * xj) / Ds - xi * xj * s / Ds**2, 0.0)
+    b2 = beta * beta
+    D = b2 * xi + xj
+    inv = 1.0 / (D + (D == 0.0))
+    xx = xi * xj
+    f = xx * (xi + xj) * inv
+    if not derivatives:
+        return f, None, None
+    f_inv = f * inv
+    fi = xj * (2.0 * xi + xj) * inv - b2 * f_inv
+    fj = xi * (xi + 2.0 * xj) * inv - f_inv
     return f, fi, fj
 
 
@@ -341,6 +317,15 @@ class MultiFluidModel:
             p.beta_v * p.gamma_v * (self.v_c[i] ** (1 / 3) + self.v_c[j] ** (1 / 3)) ** 3 / 8.0
             for i, j, p in self.pairs
         ]
+        # one table of every component's terms (groups 0 … n−1) and every weighted departure
+        # function's (groups n, n+1, …): αʳ in one pass at the mixture's τ and δ
+        self._departing = [
+            k for k, (_, _, p) in enumerate(self.pairs) if p.departure and p.F != 0.0
+        ]
+        blocks = [(i, *b) for i, pure in enumerate(self.pures) for b in pure.residual_blocks]
+        for g, k in enumerate(self._departing, start=self.n_components):
+            blocks += [(g, *b) for b in self.pairs[k][2].departure]
+        self._table = TermTable(blocks, self.n_components + len(self._departing))
         refs = [MODEL_PUBLICATION]
         for pub in [p.publication for p in self.pures] + [
             s for _, _, p in self.pairs for s in p.sources
@@ -363,8 +348,8 @@ class MultiFluidModel:
         dv = 2.0 * x * self.v_c if derivatives else None
         for (i, j, p), cT, cv in zip(self.pairs, self._cT, self._cv, strict=True):
             xi, xj = x[..., i], x[..., j]
-            fT, fTi, fTj = _pair_factor(xi, xj, p.beta_T)
-            fv, fvi, fvj = _pair_factor(xi, xj, p.beta_v)
+            fT, fTi, fTj = _pair_factor(xi, xj, p.beta_T, derivatives)
+            fv, fvi, fvj = _pair_factor(xi, xj, p.beta_v, derivatives)
             Tr = Tr + 2.0 * cT * fT
             vr = vr + 2.0 * cv * fv
             if derivatives:
@@ -397,32 +382,19 @@ class MultiFluidModel:
         rho = np.broadcast_to(rho, shape)
         x = np.broadcast_to(x, (*shape, self.n_components))
         Tr, vr, dT, dv = self._reducing_with_derivatives(x, need_parts)
-        tot = np.zeros((6, *shape))
-        pure_a00 = np.empty((*shape, self.n_components)) if need_parts else None
-        for i, model in enumerate(self.pures):
-            # component i at the mixture's τ and δ
-            d = model.alphar(T * (model.T_r / Tr), rho * (model.rho_r * vr))
-            parts = np.stack([d.a00, d.a10, d.a01, d.a20, d.a11, d.a02])
-            tot += x[..., i] * parts
-            if need_parts:
-                pure_a00[..., i] = d.a00
-        dep_a00 = []
-        if any(p.departure and p.F != 0.0 for _, _, p in self.pairs):
-            tau = (Tr / T).reshape(-1, 1)
-            delta = (rho * vr).reshape(-1, 1)
-            for i, j, p in self.pairs:
-                if not p.departure or p.F == 0.0:
-                    dep_a00.append(None)
-                    continue
-                s = np.zeros((6, tau.shape[0]))
-                for block in p.departure:
-                    a00, a01, a02, a10, a20, a11 = block.terms(tau, delta)
-                    s += np.stack([a00, a10, a01, a20, a11, a02])
-                s = s.reshape((6, *shape))
-                tot += (p.F * x[..., i] * x[..., j]) * s
-                dep_a00.append(s[0])
-        else:
-            dep_a00 = [None] * len(self.pairs)
+        sums = self._table.evaluate(Tr / T, rho * vr)  # (6, states, groups)
+        n = self.n_components
+        flat = x.reshape(-1, n)
+        weight = np.empty(sums.shape[1:])
+        weight[:, :n] = flat
+        for g, k in enumerate(self._departing, start=n):
+            i, j, p = self.pairs[k]
+            weight[:, g] = p.F * flat[:, i] * flat[:, j]
+        tot = np.einsum("ksg,sg->ks", sums, weight).reshape((6, *shape))
+        pure_a00 = sums[0, :, :n].reshape((*shape, n)) if need_parts else None
+        dep_a00: list[FloatArray | None] = [None] * len(self.pairs)
+        for g, k in enumerate(self._departing, start=n):
+            dep_a00[k] = sums[0, :, g].reshape(shape)
         return tot, pure_a00, dep_a00, Tr, vr, dT, dv, x
 
     def alphar(self, T: FloatArray, rho_mol: FloatArray, x: FloatArray) -> ResidualDerivatives:
