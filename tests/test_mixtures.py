@@ -760,6 +760,31 @@ def test_composition_sweep_full(comp: dict[str, float]) -> None:
     _sweep_one(comp, SWEEP_T, SWEEP_P, SWEEP_RHO_KG, physics=True)
 
 
+def test_trivial_split_is_refused() -> None:
+    """A closed-vessel split whose vapour is the feed itself with the whole content (β = 1 to
+    round-off) satisfies every balance and, at a stationary point of the tangent plane that is
+    not the split, equal chemical potentials too. It was once accepted for carbon dioxide 60 % +
+    nitrogen 40 % at 233.15 K and the density of 100 bar, giving 65 bar; it is refused, and the
+    state's split gives the 100 bar back whether the state is evaluated alone or among others."""
+    f = fillcheck.mixture({"carbon dioxide": 0.6, "nitrogen": 0.4})
+    z = np.array([[0.6, 0.4]])
+    rho = np.array([11888.12275822])
+    trivial = eq.Split(
+        P=np.array([6.4952e6]),
+        beta=np.array([1.0 - 1.6e-15]),
+        x=np.array([[0.90825484, 0.09174516]]),
+        y=z.copy(),
+        rho_liquid=np.array([24486.99868892]),
+        rho_vapor=rho.copy(),
+    )
+    assert not eq.split_ok(trivial, rho, z)[0]
+    T = np.array([233.15, 233.15, 258.15])
+    P = np.array([50e5, 100e5, 100e5])
+    r = f.density_molar(T, P)
+    np.testing.assert_allclose(f.vessel_path(T, r).P, P, rtol=1e-6)
+    np.testing.assert_allclose(f.vessel_path(T[1:2], r[1:2]).P, P[1:2], rtol=1e-6)
+
+
 # --- liquid roots of trial phases: no landing on an inner loop --------------------------------
 
 #: Argon-rich argon + carbon dioxide vessels that the 10,000-scenario slow run of

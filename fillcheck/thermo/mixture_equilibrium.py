@@ -39,6 +39,9 @@ from fillcheck.thermo.properties import dP_drho_from, pressure_from
 
 TRIVIAL_TOL = 1e-8
 """Squared distance Σ(wᵢ − zᵢ)² below which a trial phase is the feed itself."""
+TRIVIAL_SHARE = 1e-12
+"""A split leaving a phase less than this share of the content is the feed alone [-] (a state
+that near its phase boundary has |tm| far below TM_UNSTABLE and is tested stable)."""
 TM_UNSTABLE = -1e-9
 """A tangent-plane distance below this marks the state unstable [-]."""
 STARTER_RATIO = 0.5
@@ -703,7 +706,8 @@ def split_ok(
     T=None,
     starter: Any = None,
 ) -> np.ndarray:
-    """Which splits are real: finite, 0 ≤ β ≤ 1, two phases of different density, the
+    """Which splits are real: finite, 0 < β < 1 (not within TRIVIAL_SHARE of either end: the
+    trivial solution), two phases of different density, the
     vessel's volume kept (β/ρ_v + (1 − β)/ρ_l = 1/ρ) and every component's amount
     (βyᵢ + (1 − β)xᵢ = zᵢ). Given the model (one without closed-form
     roots), each phase must also sit on the outer root of its own branch at the split's
@@ -720,6 +724,10 @@ def split_ok(
         ok &= (
             np.max(np.abs(s.beta[:, None] * s.y + (1.0 - s.beta[:, None]) * s.x - z), axis=1) < 1e-8
         )
+        # the trivial solution: one phase is the feed itself and the other has no share (its
+        # chemical potentials can equal the feed's at a stationary point of the tangent plane
+        # that is not the split); a real split of an unstable state leaves both phases a share
+        ok &= (s.beta > TRIVIAL_SHARE) & (s.beta < 1.0 - TRIVIAL_SHARE)
     if model is None or hasattr(model, "density_roots") or not np.any(ok):
         return ok
     i = np.flatnonzero(ok)
