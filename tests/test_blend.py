@@ -594,7 +594,7 @@ def test_register_report_prints_the_recipe_of_passing_blend_rows(tmp_path) -> No
         "MIX-2,argon 82 % + carbon dioxide 18 %,mole,50 L,200 barg,15 degC,50 degC,300 barg,,"
         "15 degC\n"
     )
-    a = assess_scenario(load_register(reg))
+    a = assess_scenario(load_register(reg), is_register=True)
     assert [v.verdict for v in a.vessels] == ["pass", "pass"]
     html = tmp_path / "blends.html"
     run = subprocess.run(
@@ -617,6 +617,27 @@ def test_register_report_prints_the_recipe_of_passing_blend_rows(tmp_path) -> No
             ):
                 assert shown in text, shown
                 assert shown in page, shown
+    # on an 80-column terminal every figure still appears whole (words may wrap, figures not)
+    import io
+
+    from rich.console import Console
+
+    from fillcheck.report.terminal import render_terminal
+
+    out = io.StringIO()
+    render_terminal(a, Console(width=80, file=out, color_system=None))
+    narrow = out.getvalue()
+    recipes = narrow[narrow.index("Blend recipes of the vessels not shown in detail") :]
+    assert max(len(line) for line in recipes.splitlines()) <= 80
+    for v in a.vessels:
+        for s in v.blend.steps:
+            for shown in (
+                fmt.m(s.added_mass_kg),
+                fmt.m(s.cumulative_mass_kg),
+                fmt.p(s.stop_pressure_Pa),
+                fmt.p(s.ideal_stop_pressure_Pa),
+            ):
+                assert shown in recipes, shown
 
 
 def test_stop_table_gives_each_blend_step_by_gas_temperature() -> None:

@@ -33,7 +33,7 @@ def register_blend_rows(
         r = v.blend
         verdict = VERDICT_WORD[v.verdict]
         if r.error is not None:
-            rows.append([v.id, verdict, "—", "not computed (see blend-not-computed)"] + [""] * 5)
+            rows.append([v.id, verdict, "not computed (see blend-not-computed)"] + [""] * 6)
             continue
         for k, s in enumerate(r.steps, start=1):
             if s.liquid_present:

@@ -135,19 +135,43 @@ def _blend_tables(v: VesselAssessment, fmt: Formatter) -> list[Table]:
 def _print_register_blends(
     console: Console, vessels: list[VesselAssessment], shown: list[VesselAssessment], fmt: Formatter
 ) -> None:
+    from rich import box
+
     from fillcheck.report.register_blends import BLEND_COLUMNS, BLEND_TITLE, register_blend_rows
 
     rows, more = register_blend_rows(vessels, shown, fmt)
     if not rows:
         return
-    t = Table(title=BLEND_TITLE, title_justify="left")
-    for col in BLEND_COLUMNS:
-        t.add_column(col, justify="right" if col in ("add", "contents after") else "left")
+    # to fit 80 columns: the verdict and the blend temperature (one a vessel) join the vessel's
+    # cell, the ideal-gas stop goes under the stop, the headers are short and long words wrap
+    # instead of being cut
+    names = ("vessel", "verdict", "read at", "stop at", "ideal-gas stop")
+    vessel, verdict, read_at, stop, ideal = (BLEND_COLUMNS.index(c) for c in names)
+    keep = [i for i in range(len(BLEND_COLUMNS)) if i not in (vessel, verdict, read_at, ideal)]
+    short = {"contents after": "total", "stop at": "stop at\n(ideal gas)", "scale reads": "scale"}
+    t = Table(title=BLEND_TITLE, title_justify="left", box=box.SIMPLE_HEAD, padding=(0, 1))
+    t.add_column("vessel", overflow="fold", min_width=10)
+    for i in keep:
+        name = BLEND_COLUMNS[i]
+        right = name in ("add", "contents after")
+        words = name in ("step", "add", "stop at")  # may hold words ("weigh it (…)")
+        t.add_column(
+            short.get(name, name),
+            justify="right" if right else "left",
+            overflow="fold",
+            no_wrap=not words,  # figures stay on one line
+            min_width=11 if words else None,
+        )
     for r in rows:
-        t.add_row(*r)
+        at = f"at {r[read_at]}" if r[read_at] else ""
+        first = "\n".join(c for c in (r[vessel], r[verdict], at) if c)
+        cells = list(r)
+        if r[ideal]:
+            cells[stop] = f"{r[stop]}\n({r[ideal]})"
+        t.add_row(first if r[vessel] else "", *(cells[i] for i in keep))
     console.print(t)
     if more:
-        console.print(f"{more} more blend recipes in --json or --html.")
+        console.print(f"{more} more blend recipes in --json.")
 
 
 def _filling_table(v: VesselAssessment, fmt: Formatter) -> Table:
