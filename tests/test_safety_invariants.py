@@ -45,8 +45,11 @@ Invariants:
     relief setting, fillcheck.assess.charge); the filling ratio is within its limit; below the
     critical temperature the liquid leaves the built-in vapour space (5 %, or 0 where the
     scenario sets its own vapour-space limit) with the saturated-liquid density reduced by its
-    uncertainty (0.2 % for a reference equation, 0.5 % for the multi-fluid mixture model).
-    Tested on the random vessel itself and on charges drawn just above its plan.
+    uncertainty (0.2 % for a reference equation, 0.5 % for the multi-fluid mixture model); and
+    a blend's every step stops below its liquid band (the band, the gauge's and the
+    thermometer's error around the dew pressure, is the blend limit's margin: a step inside it
+    passes with a warning to weigh it, and the plan keeps clear of it). Tested on the random
+    vessel itself and on charges drawn just above its plan.
 (e) A vessel's findings (codes and severities, in order) and its JSON numbers are the same when
     it is checked alone and among 60 vessels of its gas with other charges (the batch path of
     assess/batch.py switches grids above 50 vessels). Numbers agree to 1e-9 relative; a
@@ -701,6 +704,8 @@ def passes_with_margins(c: Case, a: VesselAssessment) -> bool:
     rho = a.density_kg_m3
     if c.fr_kg_m3 is not None and rho > c.fr_kg_m3:
         return False
+    if a.blend is not None and any(s.in_liquid_band for s in a.blend.steps):
+        return False
     f = _public_fluid(c.gas)
     T_top = c.checked_range[1]
     Tc = f.model_critical[0] if c.mixture else f.critical.T
@@ -1006,3 +1011,37 @@ def test_blend_temperature_joins_the_checked_range() -> None:
     assert b.verdict == "pass", [(x.code, x.severity) for x in b.findings]
     assert b.max_state.temperature_K == pytest.approx(ZERO_C + 25.7)
     assert max(s.stop_pressure_Pa for s in b.blend.steps) <= 350e5
+
+
+def test_a_blend_step_in_its_liquid_band_is_no_margin() -> None:
+    # found by the slow sweep (invariant (d)): nitrogen 60 % + carbon dioxide 40 % (mol),
+    # carbon dioxide first, blended at 0 °C into 4.195 L. A charge of 0.717 kg passes with
+    # blend-step-near-dew (its carbon dioxide step stops inside the liquid band: the pressure
+    # is no way to stop it, weigh it) while the plan, 0.67 kg, keeps every step below the band.
+    # Inside the band is inside the blend limit's margin, so that charge does not count as
+    # passing with margins; the plan followed passes without the warning.
+    raw = {
+        "vessel": [
+            {
+                "id": "V1",
+                "gas": {"nitrogen": 0.6, "carbon dioxide": 0.4},
+                "water_capacity": "4.195 L",
+                "fill": {"mass": "0.717115 kg", "temperature": "0.00 degC"},
+                "storage": {"max_temperature": "38.39 degC", "min_temperature": "18.25 degC"},
+                "limits": {
+                    "allowable_pressure": "148.5775 barg",
+                    "max_filling_ratio": "386.482 kg/m3",
+                },
+                "blend": {"temperature": "0.00 degC", "order": ["carbon dioxide", "nitrogen"]},
+            }
+        ]
+    }
+    a = assess_raw(raw, complete=True)[0]
+    assert a.verdict == "pass"
+    assert [f.code for f in a.findings if f.severity == "warning"] == ["blend-step-near-dew"]
+    plan = a.max_safe_charge_kg
+    assert plan is not None and plan < 0.717115 - PLAN_ROUNDING_KG
+    raw["vessel"][0]["fill"]["mass"] = f"{plan!r} kg"
+    b = assess_raw(raw, complete=True)[0]
+    assert b.verdict == "pass"
+    assert not any(s.in_liquid_band for s in b.blend.steps)
