@@ -825,3 +825,56 @@ def test_stop_table_and_reading_of_a_blend_that_cannot_be_made(tmp_path) -> None
     assert not st.blend_steps[0].cannot_be_made and st.blend_steps[0].stop_pressure_Pa[1] > 0
     r = read_gauge(v, sc.reference_temperature_K, 150e5, 288.15, 0.05, 2.0)
     assert r.blended
+
+
+@pytest.mark.parametrize(
+    ("order", "T", "cautioned"),
+    [
+        (("nitrogen", "carbon dioxide"), 288.15, {2}),
+        (("carbon dioxide", "nitrogen"), 288.15, set()),
+        (("nitrogen", "carbon dioxide"), 308.15, set()),  # above CO2's Tc: not liquefied
+    ],
+)
+def test_a_liquefied_gas_added_above_its_vapour_pressure_is_cautioned(order, T, cautioned):
+    """A supply cylinder of carbon dioxide at the blend temperature stands at its vapour
+    pressure (CoolProp 8.0.0, Span–Wagner: 50.9 bara at 15 °C), so a step adding it to a
+    higher stop pressure cannot be decanted: caution blend-supply-below-stop, naming the step.
+    Added first, its step stops below that (common practice: the most easily liquefied gas
+    first). Above its critical temperature there is no vapour pressure to exceed."""
+    f = fillcheck.mixture({"nitrogen": 0.7, "carbon dioxide": 0.3}, basis="mass")
+    n_tot = _heos_charge(("nitrogen", "carbon dioxide"), f.z, 288.15, 200e5 + P_ATM)
+    r = blend_recipe(_vessel(f, _blend(order, T)), n_tot * f.molar_mass)
+    got = {c.facts["step"] for c in r.cautions if c.code == "blend-supply-below-stop"}
+    assert got == cautioned
+    k = order.index("carbon dioxide")
+    stop = r.steps[k].stop_pressure_Pa
+    if T < CP.PropsSI("Tcrit", "CarbonDioxide"):
+        P_sat = CP.PropsSI("P", "T", T, "Q", 0, "CarbonDioxide")
+        assert (stop > P_sat) == (k + 1 in cautioned)
+        for c in r.cautions:
+            if c.code == "blend-supply-below-stop":
+                assert c.facts["vapour_pressure_Pa"] == pytest.approx(P_sat, rel=1e-6)
+
+
+def test_a_suggested_order_that_needs_a_booster_says_so():
+    """Nitrogen 60 % + carbon dioxide 40 % by mass blended at 5 °C to settle at 200 barg at
+    15 °C: carbon dioxide first condenses (its step stops above its vapour pressure of 39.7
+    bara at 5 °C, CoolProp 8.0.0), so the recipe suggests nitrogen first; that order's carbon
+    dioxide step then stops far above the vapour pressure, and the caution says so for the
+    suggested order."""
+    f = fillcheck.mixture({"nitrogen": 0.6, "carbon dioxide": 0.4}, basis="mass")
+    n_tot = _heos_charge(("nitrogen", "carbon dioxide"), f.z, 288.15, 200e5 + P_ATM)
+    blend = _blend(("carbon dioxide", "nitrogen"), 278.15)
+    r = blend_recipe(_vessel(f, blend), n_tot * f.molar_mass)
+    assert r.steps[0].liquid_present
+    assert r.suggested_order == ("nitrogen", "carbon dioxide")
+    P_sat = CP.PropsSI("P", "T", 278.15, "Q", 0, "CarbonDioxide")
+    got = [c.facts for c in r.cautions if c.code == "blend-supply-below-stop"]
+    assert got == [
+        {
+            "step": 2,
+            "component": "carbon dioxide",
+            "vapour_pressure_Pa": pytest.approx(P_sat, rel=1e-6),
+            "suggested_order": True,
+        }
+    ]

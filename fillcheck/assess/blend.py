@@ -334,6 +334,15 @@ def blend_recipe(v: Any, charged_mass_kg: float) -> BlendRecipe:
                 in_liquid_band=c.in_band,
             )
         )
+    supplies = supply_cautions(
+        f, [(s.component, s.added_mass_kg, s.stop_pressure_Pa) for s in steps], T
+    )
+    if suggested is not None:  # the order the findings point to must say so too
+        added = {c: float((target[i] - res[i]) * M[i]) for i, c in enumerate(names)}
+        made = zip(suggested, contents_of(suggested), strict=True)
+        supplies += supply_cautions(
+            f, [(c, added[c], x.stop_pressure_Pa) for c, x in made], T, suggested=True
+        )
     steps_of = [order.index(c) + 1 for c in names]
     u_R = b.scale_resolution_kg / math.sqrt(12.0)
     Jw = weighing_jacobian(N, steps_of, M)
@@ -356,7 +365,7 @@ def blend_recipe(v: Any, charged_mass_kg: float) -> BlendRecipe:
         suggested_order=suggested,
         u_by_weight={c: float(u) for c, u in zip(names, u_w, strict=True)},
         u_by_pressure=u_p,
-        cautions=blend_cautions(f, order),
+        cautions=blend_cautions(f, order) + supplies,
         **base,
     )
 
@@ -379,6 +388,37 @@ def blend_cautions(f: MixtureFluid, order: tuple[str, ...]) -> list[Caution]:
                     {"step": k + 1, "component": c, "oxidizers": before},
                 )
             )
+    return out
+
+
+def supply_cautions(
+    f: MixtureFluid,
+    steps: list[tuple[str, float, float]],
+    T: float,
+    suggested: bool = False,
+) -> list[Caution]:
+    """Steps (component, added mass [kg], stop pressure [Pa abs]) that add a gas which is
+    liquefied at the blend temperature T [K] and stop above that gas's vapour pressure there: a
+    supply cylinder of it at T stands at most at its vapour pressure, so it cannot be decanted
+    in to the stop pressure (it needs a booster or a liquid pump, or an earlier place in the
+    order). ``suggested`` marks the steps of a suggested order, not the entered one. Common
+    practice, no source; the vapour pressure is the component's own model (its reference
+    equation, or the mixture's cubic)."""
+    out: list[Caution] = []
+    names = list(f.component_names)
+    model = None if f.model == "reference" else f.model
+    for k, (comp, added, stop) in enumerate(steps, start=1):
+        if added <= 0.0 or not math.isfinite(stop):
+            continue
+        g = Fluid(f.components[names.index(comp)], model)
+        if not (g.T_min_saturation <= T < g.model_critical[0]):
+            continue
+        P_sat = float(g.saturation_molar(np.array([T])).P[0])
+        if stop > P_sat:
+            facts: dict[str, object] = {"step": k, "component": comp, "vapour_pressure_Pa": P_sat}
+            if suggested:
+                facts["suggested_order"] = True
+            out.append(Caution("blend-supply-below-stop", facts))
     return out
 
 

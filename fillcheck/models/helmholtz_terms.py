@@ -190,6 +190,18 @@ def _weights(d: np.ndarray, t: np.ndarray, c: np.ndarray, l: np.ndarray) -> tupl
     return w0, w1, w2
 
 
+def _minus_power(
+    E: np.ndarray, k: np.ndarray, xk: np.ndarray, lnx: np.ndarray, sl: slice, c, p
+) -> None:
+    """Add the factor exp(−c x^p) of x = δ or τ to the exponents E and the logarithmic
+    derivatives k = x ∂ln f/∂x and x ∂k/∂x of the columns ``sl`` (in place)."""
+    cx = c * np.exp(lnx * p)
+    E[:, sl] -= cx
+    pcx = p * cx
+    k[:, sl] -= pcx
+    xk[:, sl] -= p * pcx
+
+
 class TermTable:
     """The residual terms of G equations (groups) in one table, evaluated together.
 
@@ -333,19 +345,9 @@ class TermTable:
         dkD = np.zeros(shape)  # δ ∂k_δ/∂δ
         tkT = np.zeros(shape)  # τ ∂k_τ/∂τ
         if self._dexp is not None:  # −c δ^l
-            sl, c, l = self._dexp
-            cx = c * np.exp(lnd * l)
-            E[:, sl] -= cx
-            lcx = l * cx
-            kD[:, sl] -= lcx
-            dkD[:, sl] -= l * lcx
+            _minus_power(E, kD, dkD, lnd, *self._dexp)
         if self._texp is not None:  # −h τ^m
-            sl, h, m = self._texp
-            hy = h * np.exp(lnt * m)
-            E[:, sl] -= hy
-            mhy = m * hy
-            kT[:, sl] -= mhy
-            tkT[:, sl] -= m * mhy
+            _minus_power(E, kT, tkT, lnt, *self._texp)
         if self._dgauss is not None:  # −η(δ − ε)²
             sl, eta, eps = self._dgauss
             u = delta - eps

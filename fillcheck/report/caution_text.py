@@ -23,6 +23,13 @@ TEXT = {
         "against its flammability limits before blending, and consider adding the flammable gas "
         "first."
     ),
+    "blend-supply-below-stop": (
+        "A gas that is liquefied at the blend temperature is added above its own vapour "
+        "pressure: a supply cylinder of it at that temperature cannot push it in once the "
+        "vessel stands above that pressure. Use a booster or a liquid pump rated for the gas, "
+        "or add it earlier in the order, while the vessel's pressure is still below its "
+        "vapour pressure."
+    ),
     "oxygen-service": (
         "Oxygen service: use valves, regulators and hoses cleaned for oxygen and free of oil and "
         "grease; open valves slowly and fill slowly: fast compression heats the gas and can "
@@ -165,6 +172,11 @@ REASON: dict[str, Callable[[dict[str, float | str]], str]] = {
     "fire": lambda f: "the checked range reaches fire temperatures",
     "blend-oxidizer-compression": lambda f: (
         f"the blend adds {', '.join(f['components'])}, an oxidizer, through the valves"
+    ),
+    "blend-supply-below-stop": lambda f: (
+        ("in the suggested order, " if f.get("suggested_order") else "")
+        + f"step {f['step']} adds {f['component']} to a stop pressure above its vapour "
+        "pressure at the blend temperature"
     ),
     "blend-flammable-into-oxidizer": lambda f: (
         f"step {f['step']} adds {f['component']} (flammable) after "

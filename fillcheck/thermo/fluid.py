@@ -14,7 +14,7 @@ from typing import Any
 
 import numpy as np
 
-from fillcheck.errors import FillcheckError, InputError, StateError
+from fillcheck.errors import ConvergenceError, FillcheckError, InputError, StateError
 from fillcheck.fluids.accuracy import REFERENCE_UNCERTAINTY, GasAccuracy, ModelError, accuracy_for
 from fillcheck.fluids.catalog import FluidData, lookup
 from fillcheck.fluids.superancillary import Superancillary, load_superancillary
@@ -46,6 +46,9 @@ Python (faster than numpy's per-call overhead for so few)."""
 
 NEAR_CRITICAL_SPAN_K = 1.0
 """Below Tc by less than this, reference saturation starts from critical scaling [K]."""
+CRITICAL_BETA = 0.325
+"""The critical exponent of the coexistence curve of real fluids, ρ' − ρ'' ∝ (Tc − T)^β
+(Sengers, Levelt Sengers (1986), Annu. Rev. Phys. Chem. 37, 189), for starting densities [-]."""
 
 
 def _out(x: Any) -> Any:
@@ -380,7 +383,7 @@ class Fluid:
             )
         while np.any(dT > target):
             new = np.maximum(dT / 3.0, target)
-            x = (new / dT) ** 0.325
+            x = (new / dT) ** CRITICAL_BETA
             s = saturation_newton(
                 self.eos,
                 Tc - new,
@@ -392,14 +395,31 @@ class Fluid:
         return s
 
     def _above_expansions(self, T: np.ndarray) -> Saturation:
-        """Saturation between the top of the expansions and Tc: the continuation of
-        _near_critical_saturation, started from the expansions at their top (a start within
-        their ~1e-9 there, so two or three steps instead of eight)."""
+        """Saturation between the top of the expansions and Tc (a few mK at most): Newton's
+        method at each temperature, started from the expansions at their top scaled to it
+        with the critical exponent (as each step of _near_critical_saturation is; one solve
+        instead of a continuation). A temperature whose solve fails from that start is solved
+        alone and, failing again, by the continuation from the top, so no temperature's result
+        depends on the others solved with it."""
         sa = self.superancillary
         assert sa is not None
-        Tc = self.model_critical[0]
+        Tc, _, rhoc = self.model_critical
         T_top = np.array([sa.T_top])
         P, rl, rv = sa.evaluate(T_top)
+        x = ((Tc - T) / (Tc - sa.T_top)) ** CRITICAL_BETA
+        try:
+            return saturation_newton(
+                self.eos, T, rhoc + (rl[0] - rhoc) * x, rhoc + (rv[0] - rhoc) * x, self.eos.rho_r
+            )
+        except ConvergenceError:
+            if T.size > 1:
+                parts = [self._above_expansions(T[i : i + 1]) for i in range(T.size)]
+                return Saturation(
+                    T=T,
+                    P=np.concatenate([p.P for p in parts]),
+                    rho_liquid=np.concatenate([p.rho_liquid for p in parts]),
+                    rho_vapor=np.concatenate([p.rho_vapor for p in parts]),
+                )
         top = Saturation(T=T_top, P=P, rho_liquid=rl, rho_vapor=rv)
         return self._near_critical_saturation(T, start=(Tc - sa.T_top, top))
 
