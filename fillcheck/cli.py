@@ -171,6 +171,8 @@ def check(
         if register:
             from fillcheck.scenario.register import load_register
 
+            _refuse_large_register(file)
+
             areas = () if areas_file is None else _areas(areas_file)
             scenario = load_register(file, areas=areas)
         else:
@@ -202,6 +204,23 @@ def check(
     raise typer.Exit(EXIT_PASS if result.verdict == "pass" else EXIT_FINDINGS)
 
 
+def _refuse_large_register(file: Path) -> None:
+    """A register too large to be read whole for a report is refused with the way that has no
+    size limit (the streamed outputs read it a row at a time)."""
+    from fillcheck.scenario.bounds import INPUT_BYTES_MAX
+
+    try:
+        size = file.stat().st_size
+    except OSError:
+        return  # the reader says what is wrong with the path
+    if size > INPUT_BYTES_MAX:
+        _refuse(
+            f"{neutralise(file.name)}: is larger than {INPUT_BYTES_MAX // (1024 * 1024)} MB, more "
+            "than is read whole for a report; stream it with --jsonl OUT.jsonl or --json (a row "
+            "at a time, no size limit), or split the file"
+        )
+
+
 def _check_jsonl(file: Path, out: str, force: bool, units: Units | None, jobs: int = 1) -> None:
     """``check --jsonl``: stream one JSON line a vessel to ``out`` ('-' for stdout), written to
     a temporary file and renamed when complete (a refused or failed run leaves nothing)."""
@@ -230,10 +249,10 @@ def _check_jsonl(file: Path, out: str, force: bool, units: Units | None, jobs: i
             sink = stack.enter_context(replacing(Path(out), ".jsonl"))
         with _guarded("the check", file):
             if file.suffix.lower() == ".csv":
-                from fillcheck.scenario.register import read_rows
+                from fillcheck.scenario.register import stream_rows
 
                 system = units.value if units is not None else "metric"
-                results = stream_register(read_rows(file), file.name, system, jobs)  # type: ignore[arg-type]
+                results = stream_register(stream_rows(file), file.name, system, jobs)  # type: ignore[arg-type]
             else:
                 from fillcheck.assess.batch import assess_many
                 from fillcheck.report.json_report import vessel_dict
@@ -288,7 +307,7 @@ def _check_json_streamed(file: Path, units: Units | None) -> None:
     from fillcheck import units as u
     from fillcheck.records import stream_register
     from fillcheck.report.permit_record import make_record, record_json
-    from fillcheck.scenario.register import read_rows
+    from fillcheck.scenario.register import stream_rows
     from fillcheck.scenario.schema import ScenarioSpec
 
     defaults = {k: f.default for k, f in ScenarioSpec.model_fields.items()}
@@ -311,7 +330,7 @@ def _check_json_streamed(file: Path, units: Units | None) -> None:
                 "atmospheric_pressure_Pa": u.parse_pressure(defaults["atmospheric_pressure"]),
             }
             spool.write(json.dumps(head, indent=2, ensure_ascii=False)[:-2] + ',\n  "vessels": [')
-            for i, v in enumerate(stream_register(read_rows(file), file.name, system)):
+            for i, v in enumerate(stream_register(stream_rows(file), file.name, system)):
                 text = json.dumps(v, indent=2, ensure_ascii=False).replace("\n", "\n    ")
                 spool.write(("\n    " if i == 0 else ",\n    ") + text)
                 counts[v["verdict"]] += 1

@@ -11,6 +11,7 @@ batch size, assess/batch.py).
 
 from __future__ import annotations
 
+import itertools
 import math
 from collections.abc import Iterable, Iterator, Mapping
 from typing import Any
@@ -56,20 +57,24 @@ def check_records(
 
 
 def stream_register(
-    rows: list[list[str]], name: str, system: UnitSystem = "metric", jobs: int = 1
+    rows: Iterable[list[str]], name: str, system: UnitSystem = "metric", jobs: int = 1
 ) -> Iterator[dict[str, Any]]:
-    """The vessels of a register's rows (header first, cells stripped), a chunk at a time."""
+    """The vessels of a register's rows (header first, cells stripped), a chunk at a time;
+    ``rows`` may be a list or a stream (scenario.register.stream_rows), consumed as it goes."""
     from fillcheck.scenario.register import check_columns, checked_rows
 
-    if not rows:
+    it = iter(rows)
+    header = next(it, None)
+    if header is None:
         raise InputError(f"{name}: is empty; the first row must name the columns")
-    header = rows[0]
     check_columns(header, name)
-    if len(rows) == 1:
+    first = next(it, None)
+    if first is None:
         raise InputError(f"{name}: has a header but no vessels; add one vessel a row")
 
     records = (
-        (n, dict(zip(header, row, strict=True))) for n, row in checked_rows(header, rows[1:], name)
+        (n, dict(zip(header, row, strict=True)))
+        for n, row in checked_rows(header, itertools.chain([first], it), name)
     )
     yield from _stream(records, name, system, CHUNK_ROWS, jobs)
 

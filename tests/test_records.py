@@ -243,3 +243,92 @@ def test_register_json_is_streamed_and_equals_the_whole_result(tmp_path: Path) -
     )  # fmt: skip
     assert run.returncode == 2 and run.stdout == ""
     assert "row 3 (vessel 'N-2'), column 'fill_pressure'" in run.stderr
+
+
+def _argon_register(path: Path, n: int) -> None:
+    head = "id,gas,water_capacity,fill_pressure,fill_temperature,max_temperature,allowable_pressure"
+    rows = [f"AR-{i},argon,50 L,{150 + i} barg,15 degC,65 degC,300 barg" for i in range(n)]
+    path.write_text("\n".join([head, *rows]) + "\n", encoding="utf-8")
+
+
+def test_a_streamed_register_is_not_bound_by_the_whole_file_limit(tmp_path, monkeypatch) -> None:
+    """`--jsonl` and `check REGISTER.csv --json` read a register a row at a time, so a register
+    above the limit on files read whole (20 MB, scenario/bounds.py; lowered here to 1 kB so the
+    test stays small) is checked in full, with the same vessels as below it; the report, which
+    reads the file whole, refuses it in one sentence that names the streamed outputs."""
+    from typer.testing import CliRunner
+
+    from fillcheck.cli import app
+
+    reg = tmp_path / "fleet.csv"
+    _argon_register(reg, 40)
+    below = CliRunner().invoke(app, ["check", str(reg), "--jsonl", "-"])
+    assert below.exit_code == 0, below.output
+    monkeypatch.setattr("fillcheck.scenario.bounds.INPUT_BYTES_MAX", 1024)
+    monkeypatch.setattr("fillcheck.scenario.source.INPUT_BYTES_MAX", 1024)
+    assert reg.stat().st_size > 1024
+    above = CliRunner().invoke(app, ["check", str(reg), "--jsonl", "-"])
+    assert above.exit_code == 0, above.output
+    lines = [json.loads(x) for x in above.stdout.splitlines() if x.startswith("{")]
+    assert [v["id"] for v in lines] == [f"AR-{i}" for i in range(40)]
+    _same(lines, [json.loads(x) for x in below.stdout.splitlines() if x.startswith("{")])
+    whole = CliRunner().invoke(app, ["check", str(reg), "--json"])
+    assert whole.exit_code == 0, whole.output
+    assert [v["id"] for v in json.loads(whole.stdout)["vessels"]] == [v["id"] for v in lines]
+    report = CliRunner().invoke(app, ["check", str(reg)])
+    assert report.exit_code == 2
+    said = " ".join(report.output.split())
+    assert "fleet.csv: is larger than" in said and "--jsonl" in said, said
+
+
+_HEAD = b"id,gas,water_capacity,fill_pressure,fill_temperature,max_temperature,allowable_pressure\n"
+_ROW = b"AR-%d,argon,50 L,200 barg,15 degC,65 degC,300 barg\n"
+
+
+@pytest.mark.parametrize(
+    ("content", "says"),
+    [
+        # common practice, no source: the refusals a streamed register gives by line or row
+        (_HEAD + _ROW % 1 + _ROW % 2 + _ROW % 3 + b"B,\xff\n", r"bad\.csv: line 5: is not UTF-8"),
+        (_HEAD + b"A," + b"x" * 70_000 + b"\n", r"bad\.csv: line 2: is longer than 65,536 bytes"),
+        (
+            _HEAD + b"A," + b"y" * 600 + b"\n",
+            r"row 2 \(vessel 'A'\), column 'gas': the cell holds 600",
+        ),
+        # a quoted cell running on over many lines stops at the csv module's field limit
+        (_HEAD + b'A,"' + (b"z" * 60_000 + b"\n") * 3, r"bad\.csv: row 2: is not valid CSV"),
+        (b"", r"bad\.csv: is empty"),
+        (_HEAD, r"bad\.csv: has a header but no vessels"),
+    ],
+)
+def test_a_streamed_register_refuses_bad_lines_by_number(tmp_path, content, says) -> None:
+    from fillcheck.records import stream_register
+    from fillcheck.scenario.register import stream_rows
+
+    bad = tmp_path / "bad.csv"
+    bad.write_bytes(content)
+    with pytest.raises(InputError, match=says):
+        list(stream_register(stream_rows(bad), "bad.csv"))
+
+
+def test_stream_rows_reads_as_it_is_used(tmp_path: Path) -> None:
+    # the rows come from the file as they are taken: the first rows are read before a bad byte
+    # far down the file is reached, and the same rows as the whole-file reader's come out
+    from fillcheck.scenario.register import _rows, stream_rows
+
+    reg = tmp_path / "fleet.csv"
+    _argon_register(reg, 5000)
+    text = reg.read_text(encoding="utf-8")
+    assert list(stream_rows(reg)) == _rows(text, "fleet.csv")
+    with reg.open("ab") as fh:
+        fh.write(b"AR-X,\xff\n")
+    rows = stream_rows(reg)
+    first = [next(rows) for _ in range(3)]
+    assert first[1][0] == "AR-0"
+    with pytest.raises(InputError, match="line 5002: is not UTF-8"):
+        list(rows)
+    missing = tmp_path / "none.csv"
+    with pytest.raises(InputError, match=r"none\.csv: no such file"):
+        stream_rows(missing)
+    with pytest.raises(InputError, match="is a folder"):
+        stream_rows(tmp_path)

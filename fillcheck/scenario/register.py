@@ -13,14 +13,17 @@ from __future__ import annotations
 import csv
 import dataclasses
 import io
+import os
 import re
+import stat
+from collections.abc import Iterable, Iterator
 from pathlib import Path
 
 from fillcheck.errors import InputError
 from fillcheck.scenario.area_input import AreaInput
 from fillcheck.scenario.bounds import TEXT_CHARS_MAX
 from fillcheck.scenario.resolve import Scenario, scenario_from_dict
-from fillcheck.scenario.source import read_input_with_digest
+from fillcheck.scenario.source import _FLAGS, _reason, read_input_with_digest
 from fillcheck.scenario.text import neutralise
 
 COLUMNS: dict[str, str] = {
@@ -111,11 +114,96 @@ def load_areas(path: str | Path) -> tuple[AreaInput, ...]:
     return resolve_areas(spec.area, name, InputError)
 
 
-def read_rows(path: str | Path) -> list[list[str]]:
-    """The rows of a CSV register (header first), cells stripped and neutralised, not yet
-    validated: for streaming the register a chunk at a time (fillcheck.records)."""
-    text, _ = read_input_with_digest(path, "register (.csv)", "save the register as UTF-8 CSV")
-    return _rows(text.lstrip("\ufeff"), Path(path).name)
+LINE_BYTES_MAX = 65_536
+"""A line of a register read as a stream holds at most this many bytes [-]: a row of every
+column at TEXT_CHARS_MAX characters, quoted, needs about 12,000; a longer line is refused by its
+number before it is held in memory."""
+
+
+def stream_rows(path: str | Path) -> Iterator[list[str]]:
+    """The rows of a CSV register (header first), cells stripped and neutralised, read from the
+    file as they are used: for ``--jsonl`` and the streamed ``--json`` (fillcheck.records),
+    whose memory is bounded by a chunk of vessels whatever the register's length, so no size
+    limit applies. The file is opened and checked (a regular file, not a folder or a device) at
+    the call; a line that is not UTF-8 or is over-long, bad CSV or an over-long cell is refused
+    naming its line or row when the stream reaches it (the streamed outputs are written only
+    once complete, so a refusal leaves nothing)."""
+    p = Path(path)
+    name = neutralise(p.name)
+    fh = _open_register(p)
+
+    def rows() -> Iterator[list[str]]:
+        with fh:
+            reader = csv.reader(_text_lines(fh, name))
+            header: list[str] = []
+            id_at: int | None = None
+            n = 0
+            while True:
+                try:
+                    row = next(reader)
+                except StopIteration:
+                    return
+                except csv.Error as exc:
+                    raise InputError(
+                        f"{name}: row {n + 1}: is not valid CSV ({neutralise(str(exc))}); "
+                        "check the quotes in that row"
+                    ) from None
+                n += 1
+                if n == 1:
+                    header = [h.strip() if len(h) <= TEXT_CHARS_MAX else "" for h in row]
+                    id_at = header.index("id") if "id" in header else None
+                _check_cells(row, n, header, id_at, name)
+                yield row
+
+    return rows()
+
+
+def _open_register(p: Path) -> io.BufferedReader:
+    """The register at ``p`` opened for reading bytes, or an InputError: no such file, a folder,
+    or not a regular file (nothing is read from those)."""
+    give = "give the path of a register (.csv) file"
+    try:
+        fd = os.open(p, _FLAGS)
+    except (FileNotFoundError, NotADirectoryError):
+        raise InputError(f"{neutralise(str(p))}: no such file; {give}") from None
+    except IsADirectoryError:
+        raise InputError(f"{neutralise(str(p))}: is a folder; {give}") from None
+    except (OSError, ValueError) as exc:
+        raise InputError(f"{neutralise(p.name)}: cannot be read ({_reason(exc)}); {give}") from None
+    st = os.fstat(fd)
+    if not stat.S_ISREG(st.st_mode):
+        os.close(fd)
+        what = (
+            "is a folder"
+            if stat.S_ISDIR(st.st_mode)
+            else ("is not a regular file (a device, a pipe or a socket)")
+        )
+        raise InputError(f"{neutralise(str(p))}: {what}; {give}")
+    return open(fd, "rb")  # closed by stream_rows
+
+
+def _text_lines(fh: io.BufferedReader, name: str) -> Iterator[str]:
+    """The lines of ``fh`` decoded as UTF-8 (a leading byte-order mark dropped), one at a time;
+    a line longer than LINE_BYTES_MAX is refused before it is held whole, and a line that is not
+    UTF-8 is refused by its number."""
+    n = 0
+    while True:
+        raw = fh.readline(LINE_BYTES_MAX + 1)
+        if not raw:
+            return
+        n += 1
+        if len(raw) > LINE_BYTES_MAX:
+            raise InputError(
+                f"{name}: line {n}: is longer than {LINE_BYTES_MAX:,} bytes, more than any "
+                "register row needs; check the file"
+            )
+        try:
+            line = raw.decode("utf-8-sig" if n == 1 else "utf-8")
+        except UnicodeDecodeError:
+            raise InputError(
+                f"{name}: line {n}: is not UTF-8 text; save the register as UTF-8 CSV"
+            ) from None
+        yield line
 
 
 def _rows(text: str, name: str) -> list[list[str]]:
@@ -142,21 +230,27 @@ def _rows(text: str, name: str) -> list[list[str]]:
     header = [h.strip() if len(h) <= TEXT_CHARS_MAX else "" for h in (rows[0] if rows else [])]
     id_at = header.index("id") if "id" in header else None
     for n, row in enumerate(rows, start=1):
-        for i, cell in enumerate(row):
-            if len(cell) > TEXT_CHARS_MAX:
-                col = f"column {i + 1}"
-                if n > 1 and i < len(header) and header[i]:
-                    col = f"column '{neutralise(header[i])}'"
-                at = f"row {n}"
-                vid = row[id_at].strip() if id_at is not None and id_at < len(row) else ""
-                if n > 1 and vid and len(vid) <= 60:
-                    at += f" (vessel '{neutralise(vid)}')"
-                raise InputError(
-                    f"{name}: {at}, {col}: the cell holds {len(cell):,} characters, more "
-                    f"than the {TEXT_CHARS_MAX} a register cell may hold; check the file"
-                )
-        row[:] = [neutralise(cell.strip()) for cell in row]
+        _check_cells(row, n, header, id_at, name)
     return rows
+
+
+def _check_cells(row: list[str], n: int, header: list[str], id_at: int | None, name: str) -> None:
+    """Refuse a cell of row ``n`` longer than TEXT_CHARS_MAX (naming the row, the vessel and
+    the column), then strip and neutralise every cell in place."""
+    for i, cell in enumerate(row):
+        if len(cell) > TEXT_CHARS_MAX:
+            col = f"column {i + 1}"
+            if n > 1 and i < len(header) and header[i]:
+                col = f"column '{neutralise(header[i])}'"
+            at = f"row {n}"
+            vid = row[id_at].strip() if id_at is not None and id_at < len(row) else ""
+            if n > 1 and vid and len(vid) <= 60:
+                at += f" (vessel '{neutralise(vid)}')"
+            raise InputError(
+                f"{name}: {at}, {col}: the cell holds {len(cell):,} characters, more "
+                f"than the {TEXT_CHARS_MAX} a register cell may hold; check the file"
+            )
+    row[:] = [neutralise(cell.strip()) for cell in row]
 
 
 def register_from_text(
@@ -180,7 +274,7 @@ def register_from_text(
     )
 
 
-def checked_rows(header: list[str], records: list[list[str]], name: str):  # type: ignore[no-untyped-def]
+def checked_rows(header: list[str], records: Iterable[list[str]], name: str):  # type: ignore[no-untyped-def]
     """(row number, cells) of each record, refusing an empty row or one whose cell count
     differs from the header's; row 1 is the header."""
     for n, row in enumerate(records, start=2):
