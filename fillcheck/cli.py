@@ -143,6 +143,10 @@ def check(
     """
     from fillcheck.assess import assess_scenario
 
+    if file.suffix.lower() == ".csv":  # a register: BLAS threads cost more than they give
+        from fillcheck.records import one_blas_thread
+
+        one_blas_thread()
     if areas_file is not None and file.suffix.lower() != ".csv":
         _refuse(
             "--areas goes with a register (.csv); a scenario file holds its own [[area]] tables"
@@ -171,7 +175,7 @@ def check(
         if register:
             from fillcheck.scenario.register import load_register
 
-            _refuse_large_register(file)
+            _refuse_large_register(file, html_out is not None or areas_file is not None)
 
             areas = () if areas_file is None else _areas(areas_file)
             scenario = load_register(file, areas=areas)
@@ -204,9 +208,10 @@ def check(
     raise typer.Exit(EXIT_PASS if result.verdict == "pass" else EXIT_FINDINGS)
 
 
-def _refuse_large_register(file: Path) -> None:
+def _refuse_large_register(file: Path, whole_only: bool) -> None:
     """A register too large to be read whole for a report is refused with the way that has no
-    size limit (the streamed outputs read it a row at a time)."""
+    size limit (the streamed outputs read it a row at a time); ``whole_only``: --html or
+    --areas was given, which need the whole register."""
     from fillcheck.scenario.bounds import INPUT_BYTES_MAX
 
     try:
@@ -214,10 +219,16 @@ def _refuse_large_register(file: Path) -> None:
     except OSError:
         return  # the reader says what is wrong with the path
     if size > INPUT_BYTES_MAX:
+        way = (
+            "--html and --areas need the whole register: split the file, or leave them out and "
+            "stream it with --jsonl OUT.jsonl or --json (a row at a time, no size limit)"
+            if whole_only
+            else "stream it with --jsonl OUT.jsonl or --json (a row at a time, no size limit), "
+            "or split the file"
+        )
         _refuse(
             f"{neutralise(file.name)}: is larger than {INPUT_BYTES_MAX // (1024 * 1024)} MB, more "
-            "than is read whole for a report; stream it with --jsonl OUT.jsonl or --json (a row "
-            "at a time, no size limit), or split the file"
+            f"than is read whole for a report; {way}"
         )
 
 
@@ -317,10 +328,8 @@ def _check_json_streamed(file: Path, units: Units | None) -> None:
     gases: dict[tuple[str, ...], Any] = {}
     with tempfile.TemporaryFile("w+", encoding="utf-8") as spool:
         with _guarded("the check", file):
-            digest = hashlib.sha256()
-            with file.open("rb") as fh:
-                for block in iter(lambda: fh.read(1 << 20), b""):
-                    digest.update(block)
+            digest = hashlib.sha256()  # of the bytes the rows are read from, as they are read
+            rows = stream_rows(file, digest)  # refuses a missing file, a folder, a pipe at once
             head = {
                 "fillcheck_version": __version__,
                 "source": neutralise(file.name),
@@ -330,7 +339,7 @@ def _check_json_streamed(file: Path, units: Units | None) -> None:
                 "atmospheric_pressure_Pa": u.parse_pressure(defaults["atmospheric_pressure"]),
             }
             spool.write(json.dumps(head, indent=2, ensure_ascii=False)[:-2] + ',\n  "vessels": [')
-            for i, v in enumerate(stream_register(stream_rows(file), file.name, system)):
+            for i, v in enumerate(stream_register(rows, file.name, system)):
                 text = json.dumps(v, indent=2, ensure_ascii=False).replace("\n", "\n    ")
                 spool.write(("\n    " if i == 0 else ",\n    ") + text)
                 counts[v["verdict"]] += 1
@@ -412,6 +421,8 @@ def _guarded(what: str, file: Path) -> Iterator[None]:
         raise typer.Exit(EXIT_FINDINGS) from None
     except typer.Exit:
         raise
+    except BrokenPipeError:  # the reader of stdout stopped (``| head``): not a defect
+        _stdout_gone()
     except Exception as exc:  # a defect in fillcheck
         _say(
             f"internal error ({type(exc).__name__}: {exc}); no result was "
@@ -663,7 +674,19 @@ def main() -> None:
         sys.exit(EXIT_FINDINGS)
     except SystemExit as exc:
         sys.exit(exc.code)
+    except BrokenPipeError:
+        _stdout_gone()
     sys.exit(code if isinstance(code, int) else 0)
+
+
+def _stdout_gone() -> None:
+    """The reader of stdout closed it (``fillcheck check ... --jsonl - | head``): stop quietly
+    with status 1 (what was written is not the whole result), and point stdout at the null
+    device so that Python's flush at exit does not fail again."""
+    devnull = os.open(os.devnull, os.O_WRONLY)
+    os.dup2(devnull, sys.stdout.fileno())
+    os.close(devnull)
+    raise SystemExit(EXIT_FINDINGS)
 
 
 def _one_line(text: str) -> str:

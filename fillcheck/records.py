@@ -149,6 +149,22 @@ def _stream(
         raise InputError(f"{name}: holds no vessels; give at least one")
 
 
+def one_blas_thread() -> None:
+    """Run numpy's BLAS (the matrix products of models/helmholtz_terms.py) on one thread in this
+    process. Its products are a few thousand states by a few dozen terms: BLAS threads there
+    spend more time waiting than working (a 3,000-row register took 1.4-1.5 times the CPU time
+    and 1.2-1.3 times the wall time with OpenBLAS's default threads on a 2-core machine,
+    benchmarks/bench_fleet.py, 2026-12-04), and one thread makes the round-off of a vessel's
+    numbers independent of the machine's core count. For the command line and the worker
+    processes of ``jobs`` only, never for a caller's own process. Without threadpoolctl (a
+    dependency) it does nothing."""
+    try:
+        from threadpoolctl import threadpool_limits
+    except ImportError:  # pragma: no cover - a dependency; speed only, never results
+        return
+    threadpool_limits(1, user_api="blas")
+
+
 def _checked_chunks(
     chunks: Iterator[Chunk], name: str, system: UnitSystem, jobs: int
 ) -> Iterator[tuple[int, list[dict[str, Any]]]]:
@@ -161,7 +177,7 @@ def _checked_chunks(
     from collections import deque
     from concurrent.futures import ProcessPoolExecutor
 
-    pool = ProcessPoolExecutor(max_workers=jobs)
+    pool = ProcessPoolExecutor(max_workers=jobs, initializer=one_blas_thread)
     try:
         pending: deque[tuple[int, Any]] = deque()
         for chunk in chunks:

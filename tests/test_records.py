@@ -8,6 +8,7 @@ Reference values: CoolProp 8.0.0's evaluation of the same published equations (S
 from __future__ import annotations
 
 import json
+import os
 import subprocess
 import sys
 from pathlib import Path
@@ -332,3 +333,80 @@ def test_stream_rows_reads_as_it_is_used(tmp_path: Path) -> None:
         stream_rows(missing)
     with pytest.raises(InputError, match="is a folder"):
         stream_rows(tmp_path)
+
+
+def test_a_register_runs_numpys_blas_on_one_thread(tmp_path: Path) -> None:
+    # common practice, no source: the command line checks a register with one BLAS thread
+    # (records.one_blas_thread; its small matrix products gain nothing from more), and leaves
+    # a caller's own process alone when it only imports fillcheck
+    threadpoolctl = pytest.importorskip("threadpoolctl")
+    del threadpoolctl
+    reg = tmp_path / "fleet.csv"
+    _argon_register(reg, 5)
+    code = (
+        "import json, sys, threadpoolctl\n"
+        "from fillcheck.cli import main\n"
+        "before = [p['num_threads'] for p in threadpoolctl.threadpool_info()"
+        " if p['user_api'] == 'blas']\n"
+        f"sys.argv = ['fillcheck', 'check', {str(reg)!r}, '--jsonl', '-']\n"
+        "try:\n    main()\nexcept SystemExit:\n    pass\n"
+        "after = [p['num_threads'] for p in threadpoolctl.threadpool_info()"
+        " if p['user_api'] == 'blas']\n"
+        "print('BLAS ' + json.dumps([before, after]), file=sys.stderr)\n"
+    )
+    env = {k: v for k, v in os.environ.items() if not k.endswith("_NUM_THREADS")}
+    env["OPENBLAS_NUM_THREADS"] = "2"  # two threads before, on any machine
+    r = subprocess.run(
+        [sys.executable, "-c", code], capture_output=True, text=True, env=env, check=False
+    )
+    said = r.stderr.strip().splitlines()[-1]
+    assert said.startswith("BLAS"), r.stderr
+    before, after = json.loads(said[5:])  # BLAS libraries' thread counts, before and after
+    assert before and after == [1] * len(before), said
+    assert max(before) > 1 or "openblas" not in r.stderr.lower(), said
+
+
+def test_streamed_json_refuses_a_bad_path_and_reads_byte_order_marks_as_before(tmp_path) -> None:
+    # common practice, no source: `check REG.csv --json` refuses a missing file, a folder and a
+    # pipe in one sentence (exit 2, never waiting on the pipe), and a register behind byte-order
+    # marks reads as the whole-file reader reads it
+    fifo = tmp_path / "fifo.csv"
+    os.mkfifo(fifo)
+    for path, says in [
+        (tmp_path / "none.csv", "no such file"),
+        (tmp_path, "is a folder"),
+        (fifo, "is not a regular file"),
+    ]:
+        r = subprocess.run(
+            [sys.executable, "-m", "fillcheck", "check", str(path), "--json"],
+            capture_output=True, text=True, timeout=60, check=False,
+        )  # fmt: skip
+        assert r.returncode == 2 and says in r.stderr and r.stdout == "", r.stderr
+        assert "Traceback" not in r.stderr and "internal error" not in r.stderr
+    from fillcheck.records import stream_register
+    from fillcheck.scenario.register import stream_rows
+
+    marks = tmp_path / "marks.csv"
+    marks.write_bytes(b"\xef\xbb\xbf\xef\xbb\xbf" + _HEAD + _ROW % 1)
+    assert [v["id"] for v in stream_register(stream_rows(marks), "marks.csv")] == ["AR-1"]
+    only = tmp_path / "only.csv"
+    only.write_bytes(b"\xef\xbb\xbf")
+    with pytest.raises(InputError, match=r"only\.csv: is empty"):
+        list(stream_register(stream_rows(only), "only.csv"))
+
+
+def test_a_stream_cut_short_by_its_reader_stops_quietly(tmp_path: Path) -> None:
+    # `--jsonl - | head`: the reader closes the pipe; fillcheck stops with status 1 and no
+    # "internal error" (common practice, no source)
+    reg = tmp_path / "fleet.csv"
+    _argon_register(reg, 60)  # about 4 kB a line: more than a pipe holds, so the writer waits
+    proc = subprocess.Popen(
+        [sys.executable, "-m", "fillcheck", "check", str(reg), "--jsonl", "-"],
+        stdout=subprocess.PIPE, stderr=subprocess.PIPE,
+    )  # fmt: skip
+    assert proc.stdout is not None and proc.stderr is not None
+    proc.stdout.read(10)
+    proc.stdout.close()
+    err = proc.stderr.read().decode()
+    assert proc.wait(timeout=120) == 1, err
+    assert "internal error" not in err and "Traceback" not in err, err

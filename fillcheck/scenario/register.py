@@ -18,6 +18,7 @@ import re
 import stat
 from collections.abc import Iterable, Iterator
 from pathlib import Path
+from typing import Any
 
 from fillcheck.errors import InputError
 from fillcheck.scenario.area_input import AreaInput
@@ -120,21 +121,23 @@ column at TEXT_CHARS_MAX characters, quoted, needs about 12,000; a longer line i
 number before it is held in memory."""
 
 
-def stream_rows(path: str | Path) -> Iterator[list[str]]:
+def stream_rows(path: str | Path, digest: Any = None) -> Iterator[list[str]]:
     """The rows of a CSV register (header first), cells stripped and neutralised, read from the
     file as they are used: for ``--jsonl`` and the streamed ``--json`` (fillcheck.records),
     whose memory is bounded by a chunk of vessels whatever the register's length, so no size
     limit applies. The file is opened and checked (a regular file, not a folder or a device) at
     the call; a line that is not UTF-8 or is over-long, bad CSV or an over-long cell is refused
     naming its line or row when the stream reaches it (the streamed outputs are written only
-    once complete, so a refusal leaves nothing)."""
+    once complete, so a refusal leaves nothing). ``digest`` (a ``hashlib`` object), when given,
+    is fed every byte read, so that once the stream is exhausted it holds the hash of exactly
+    the bytes the rows came from (the permit-file record's input hash)."""
     p = Path(path)
     name = neutralise(p.name)
     fh = _open_register(p)
 
     def rows() -> Iterator[list[str]]:
         with fh:
-            reader = csv.reader(_text_lines(fh, name))
+            reader = csv.reader(_text_lines(fh, name, digest))
             header: list[str] = []
             id_at: int | None = None
             n = 0
@@ -182,15 +185,17 @@ def _open_register(p: Path) -> io.BufferedReader:
     return open(fd, "rb")  # closed by stream_rows
 
 
-def _text_lines(fh: io.BufferedReader, name: str) -> Iterator[str]:
-    """The lines of ``fh`` decoded as UTF-8 (a leading byte-order mark dropped), one at a time;
-    a line longer than LINE_BYTES_MAX is refused before it is held whole, and a line that is not
-    UTF-8 is refused by its number."""
+def _text_lines(fh: io.BufferedReader, name: str, digest: Any = None) -> Iterator[str]:
+    """The lines of ``fh`` decoded as UTF-8 (leading byte-order marks dropped, as the whole-file
+    reader does), one at a time; a line longer than LINE_BYTES_MAX is refused before it is held
+    whole, and a line that is not UTF-8 is refused by its number."""
     n = 0
     while True:
         raw = fh.readline(LINE_BYTES_MAX + 1)
         if not raw:
             return
+        if digest is not None:
+            digest.update(raw)
         n += 1
         if len(raw) > LINE_BYTES_MAX:
             raise InputError(
@@ -198,11 +203,15 @@ def _text_lines(fh: io.BufferedReader, name: str) -> Iterator[str]:
                 "register row needs; check the file"
             )
         try:
-            line = raw.decode("utf-8-sig" if n == 1 else "utf-8")
+            line = raw.decode("utf-8")
         except UnicodeDecodeError:
             raise InputError(
                 f"{name}: line {n}: is not UTF-8 text; save the register as UTF-8 CSV"
             ) from None
+        if n == 1:
+            line = line.lstrip("\ufeff")
+            if not line:  # a file of byte-order marks only is empty
+                continue
         yield line
 
 
