@@ -16,6 +16,8 @@ from pathlib import Path
 import CoolProp.CoolProp as CP
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 import fillcheck
 from fillcheck.errors import InputError
@@ -410,3 +412,27 @@ def test_a_stream_cut_short_by_its_reader_stops_quietly(tmp_path: Path) -> None:
     err = proc.stderr.read().decode()
     assert proc.wait(timeout=120) == 1, err
     assert "internal error" not in err and "Traceback" not in err, err
+
+
+_PIECES = [*'ab,"\n\r ;é€\u2028\x1b\t\ufeff', "\r\n", "x" * 497]  # cells near 500 characters
+_CSV_TEXT = st.lists(st.sampled_from(_PIECES), max_size=60).map("".join)
+
+
+@settings(max_examples=150, deadline=None)
+@given(text=_CSV_TEXT, marks=st.integers(0, 2))
+def test_the_streamed_reader_reads_as_the_whole_file_reader(tmp_path_factory, text, marks):
+    """One path (common practice, no source): for any text, the line-at-a-time reader gives the
+    rows the whole-file reader gives, cell for cell, or the same refusal."""
+    from fillcheck.scenario.register import _rows, stream_rows
+
+    path = tmp_path_factory.mktemp("csv") / "r.csv"
+    path.write_bytes(b"\xef\xbb\xbf" * marks + text.encode("utf-8"))
+    try:
+        whole: object = _rows(text.lstrip("\ufeff"), "r.csv")
+    except InputError as exc:
+        whole = str(exc)
+    try:
+        streamed: object = list(stream_rows(path))
+    except InputError as exc:
+        streamed = str(exc)
+    assert streamed == whole
