@@ -224,10 +224,17 @@ def _rows(text: str, name: str) -> list[list[str]]:
     # text), so that a long cell is refused below by its row and column, not by the csv module
     old = csv.field_size_limit()
     csv.field_size_limit(max(old, len(text) + 1))
+    header: list[str] = []
+    id_at: int | None = None
     try:
         reader = csv.reader(io.StringIO(text))
         try:
-            for row in reader:
+            for row in reader:  # each row checked as it is read: the file's first problem
+                n = len(rows) + 1  # is the one refused, as in stream_rows
+                if n == 1:
+                    header = [h.strip() if len(h) <= TEXT_CHARS_MAX else "" for h in row]
+                    id_at = header.index("id") if "id" in header else None
+                _check_cells(row, n, header, id_at, name)
                 rows.append(row)
         except csv.Error as exc:
             raise InputError(
@@ -236,10 +243,6 @@ def _rows(text: str, name: str) -> list[list[str]]:
             ) from None
     finally:
         csv.field_size_limit(old)
-    header = [h.strip() if len(h) <= TEXT_CHARS_MAX else "" for h in (rows[0] if rows else [])]
-    id_at = header.index("id") if "id" in header else None
-    for n, row in enumerate(rows, start=1):
-        _check_cells(row, n, header, id_at, name)
     return rows
 
 
