@@ -40,7 +40,7 @@ def destination_problem(
         if kind is not None:
             return f"{path}: is {kind}, not a regular file; give the path of a new {kind_of_file}"
         if source is not None and _same_file(path, Path(source)):
-            return f"{path}: is the input file itself; give the report another name"
+            return f"{path}: is the input file itself; give the {kind_of_file} another name"
         if not force:
             return f"{path}: the file exists; give --force to replace it, or another name"
     folder = path.parent if str(path.parent) else Path(".")
