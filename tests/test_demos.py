@@ -382,3 +382,38 @@ def test_cold_yard_dropout_against_coolprop(demos, scenario, vessel_id) -> None:
     z = np.array([a.composition[n] for n in names])
     held = phi * rho_l * x + (1.0 - phi) * rho_v * y
     assert held == pytest.approx(z * rho_mol, rel=1e-6)
+
+
+def test_the_register_demo_streams_the_vessels_of_its_report(tmp_path: Path) -> None:
+    """scenarios/east_depot_register.csv (an invented depot): the report, `--json` and `--jsonl`
+    hold the same vessels with the same verdicts, and its argon and carbon dioxide rows agree
+    with CoolProp 8.0.0's reference equations (Tegeler et al. 1999; Span and Wagner 1996)."""
+    import json
+    import subprocess
+    import sys
+
+    reg = ROOT / "scenarios" / "east_depot_register.csv"
+    run = [sys.executable, "-m", "fillcheck", "check", str(reg)]
+    report = subprocess.run([*run, "--width", "160"], capture_output=True, text=True, check=False)
+    whole = subprocess.run([*run, "--json"], capture_output=True, text=True, check=False)
+    out = tmp_path / "east.jsonl"
+    stream = subprocess.run(
+        [*run, "--jsonl", str(out)], capture_output=True, text=True, check=False
+    )
+    assert report.returncode == whole.returncode == stream.returncode == 1, stream.stderr
+    lines = [json.loads(x) for x in out.read_text(encoding="utf-8").splitlines()]
+    vessels = json.loads(whole.stdout)["vessels"]
+    assert [(v["id"], v["verdict"]) for v in lines] == [(v["id"], v["verdict"]) for v in vessels]
+    failing = [v["id"] for v in lines if v["verdict"] == "fail"]
+    assert failing and f"{len(failing)} fail" in stream.stderr
+    for vid in failing:  # every failing vessel is named in the printed report
+        assert vid in report.stdout
+    by_id = {v["id"]: v for v in lines}
+    ar = by_id["ED-AR-001"]  # argon, 200 barg at 15 °C, 50 L, to 50 °C
+    rho = CP.PropsSI("D", "T", 288.15, "P", 200e5 + 101325.0, "Argon")
+    assert ar["density_kg_m3"] == pytest.approx(rho, rel=1e-7)
+    p_top = CP.PropsSI("P", "T", 323.15, "D", rho, "Argon")
+    assert ar["max_temperature"]["pressure_Pa"] == pytest.approx(p_top, rel=1e-7)
+    co2 = by_id["ED-CO2-001"]  # carbon dioxide, 30 kg in 40 L, to 50 °C
+    p_co2 = CP.PropsSI("P", "T", 323.15, "D", 30.0 / 0.040, "CarbonDioxide")
+    assert co2["max_temperature"]["pressure_Pa"] == pytest.approx(p_co2, rel=1e-7)
