@@ -152,10 +152,10 @@ def _stream(
 def one_blas_thread() -> None:
     """Run numpy's BLAS (the matrix products of models/helmholtz_terms.py) on one thread in this
     process. Its products are a few thousand states by a few dozen terms: BLAS threads there
-    spend more time waiting than working (a 3,000-row register took 1.4-1.5 times the CPU time
-    and 1.2-1.3 times the wall time with OpenBLAS's default threads on a 2-core machine,
-    benchmarks/bench_fleet.py, 2026-12-04), and one thread makes the round-off of a vessel's
-    numbers independent of the machine's core count. For the command line and the worker
+    spend more time waiting than working (a 3,000-row register took 1.4 times the CPU time with
+    OpenBLAS's default threads on a 2-core machine, for the same wall time when the machine was
+    idle and 1.2-1.3 times it when loaded; 2026-12-04), and one thread makes the round-off of a
+    vessel's numbers independent of the machine's core count. For the command line and the worker
     processes of ``jobs`` only, never for a caller's own process. Without threadpoolctl (a
     dependency) it does nothing."""
     try:
