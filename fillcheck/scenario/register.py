@@ -137,28 +137,35 @@ def stream_rows(path: str | Path, digest: Any = None) -> Iterator[list[str]]:
 
     def rows() -> Iterator[list[str]]:
         with fh:
-            reader = csv.reader(_text_lines(fh, name, digest))
-            header: list[str] = []
-            id_at: int | None = None
-            n = 0
-            while True:
-                try:
-                    row = next(reader)
-                except StopIteration:
-                    return
-                except csv.Error as exc:
-                    raise InputError(
-                        f"{name}: row {n + 1}: is not valid CSV ({neutralise(str(exc))}); "
-                        "check the quotes in that row"
-                    ) from None
-                n += 1
-                if n == 1:
-                    header = [h.strip() if len(h) <= TEXT_CHARS_MAX else "" for h in row]
-                    id_at = header.index("id") if "id" in header else None
-                _check_cells(row, n, header, id_at, name)
-                yield row
+            yield from _records(_text_lines(fh, name, digest), name)
 
     return rows()
+
+
+def _records(lines: Iterable[str], name: str) -> Iterator[list[str]]:
+    """The CSV records of ``lines``, each checked as it is read (_check_cells), so that the
+    first problem of a file is the one refused, whichever reader reads it; text that is not CSV
+    is refused naming its row."""
+    reader = csv.reader(lines)
+    header: list[str] = []
+    id_at: int | None = None
+    n = 0
+    while True:
+        try:
+            row = next(reader)
+        except StopIteration:
+            return
+        except csv.Error as exc:
+            raise InputError(
+                f"{name}: row {n + 1}: is not valid CSV ({neutralise(str(exc))}); "
+                "check the quotes in that row"
+            ) from None
+        n += 1
+        if n == 1:
+            header = [h.strip() if len(h) <= TEXT_CHARS_MAX else "" for h in row]
+            id_at = header.index("id") if "id" in header else None
+        _check_cells(row, n, header, id_at, name)
+        yield row
 
 
 def _open_register(p: Path) -> io.BufferedReader:
@@ -218,32 +225,14 @@ def _text_lines(fh: io.BufferedReader, name: str, digest: Any = None) -> Iterato
 def _rows(text: str, name: str) -> list[list[str]]:
     """The CSV records of ``text``, every cell stripped and neutralised; a cell longer than
     TEXT_CHARS_MAX, or text that is not CSV, is refused naming the row (and the column)."""
-    name = neutralise(name)
-    rows: list[list[str]] = []
     # the module-wide field limit is lifted while reading (a cell can be no longer than the
-    # text), so that a long cell is refused below by its row and column, not by the csv module
+    # text), so that a long cell is refused by its row and column, not by the csv module
     old = csv.field_size_limit()
     csv.field_size_limit(max(old, len(text) + 1))
-    header: list[str] = []
-    id_at: int | None = None
     try:
-        reader = csv.reader(io.StringIO(text))
-        try:
-            for row in reader:  # each row checked as it is read: the file's first problem
-                n = len(rows) + 1  # is the one refused, as in stream_rows
-                if n == 1:
-                    header = [h.strip() if len(h) <= TEXT_CHARS_MAX else "" for h in row]
-                    id_at = header.index("id") if "id" in header else None
-                _check_cells(row, n, header, id_at, name)
-                rows.append(row)
-        except csv.Error as exc:
-            raise InputError(
-                f"{name}: row {len(rows) + 1}: is not valid CSV ({neutralise(str(exc))}); "
-                "check the quotes in that row"
-            ) from None
+        return list(_records(io.StringIO(text), neutralise(name)))
     finally:
         csv.field_size_limit(old)
-    return rows
 
 
 def _check_cells(row: list[str], n: int, header: list[str], id_at: int | None, name: str) -> None:
